@@ -2,6 +2,7 @@ package fit_test
 
 import (
 	"fmt"
+	"math"
 
 	"calred/fit"
 )
@@ -20,4 +21,28 @@ func ExampleLine() {
 	// Output:
 	// intercept 21.5022 K, slope 5.971e-04 K/s ± 2.0e-05
 	// at t = 60 s: 21.5381 ± 0.0008
+}
+
+func ExampleLevenbergMarquardt() {
+	// Newtonian approach to a convergence temperature:
+	// θ(t) = θ∞ + (θ0 − θ∞)·exp(−k·t), invented readings (°C, s).
+	t := []float64{0, 60, 120, 180, 240, 300, 360, 420}
+	y := []float64{25.000, 24.412, 23.931, 23.538, 23.215, 22.954, 22.738, 22.563}
+	model := func(t float64, p []float64) float64 {
+		return p[0] + (p[1]-p[0])*math.Exp(-p[2]*t)
+	}
+	f, err := fit.LevenbergMarquardt(model, nil, t, y, []float64{20, 25, 1e-3}, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	sd := f.ParamSD()
+	fmt.Println(f.Status)
+	fmt.Printf("θ∞ = %.3f ± %.3f °C, k = %.4e ± %.1e 1/s\n", f.Params[0], sd[0], f.Params[2], sd[2])
+	// Cross-checked by variable projection (golden-section search on k,
+	// linear least squares for θ∞ and θ0): k = 3.35746e-3 1/s, θ∞ = 21.7756 °C.
+
+	// Output:
+	// converged (parameter step)
+	// θ∞ = 21.776 ± 0.003 °C, k = 3.3575e-03 ± 5.3e-06 1/s
 }
