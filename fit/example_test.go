@@ -46,3 +46,27 @@ func ExampleLevenbergMarquardt() {
 	// converged (parameter step)
 	// θ∞ = 21.776 ± 0.003 °C, k = 3.3575e-03 ± 5.3e-06 1/s
 }
+
+func ExampleChangePoint() {
+	// A slow drift that turns into a steep rise at t = 45 s, between readings.
+	var t, y []float64
+	for i := range 12 {
+		v := 10 * float64(i)
+		y0 := 20 + 0.001*v
+		if v >= 45 {
+			y0 = 20.045 + 0.02*(v-45)
+		}
+		t = append(t, v)
+		y = append(y, y0)
+	}
+	k, gain, err := fit.ChangePoint(t, y, 3)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	// Both pieces are exact lines, so the gain is the SSR of one line through
+	// all points: 0.28974 K² by the closed form C_yy − C_xy²/C_xx.
+	fmt.Printf("split before t = %g s, SSR reduced by %.4f K²\n", t[k], gain)
+	// Output:
+	// split before t = 50 s, SSR reduced by 0.2897 K²
+}

@@ -333,3 +333,21 @@ func BenchmarkLine1e5(b *testing.B) {
 		}
 	}
 }
+
+func TestPolynomialDegreeZero(t *testing.T) {
+	// analytic: a degree-0 fit is the mean, with SD s/√n.
+	y := []float64{2, 4, 4, 4, 5, 5, 7, 9}
+	x := []float64{1, 1, 1, 1, 1, 1, 1, 1} // any x will do, even all equal
+	f, err := Polynomial(x, y, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// mean 5, Σ(y − 5)² = 32, s = √(32/7).
+	s := math.Sqrt(32.0 / 7)
+	if !approx(f.Params[0], 5, 1e-14, 0) || !approx(f.ParamSD()[0], s/math.Sqrt(8), 1e-14, 1e-13) || !approx(f.ResidualSD, s, 1e-14, 1e-13) {
+		t.Errorf("got %v ± %v, s = %v; want 5 ± %v, s = %v", f.Params[0], f.ParamSD()[0], f.ResidualSD, s/math.Sqrt(8), s)
+	}
+	if f.Slope(3) != 0 || f.SlopeU(3) != 0 {
+		t.Errorf("slope of a constant = %v ± %v", f.Slope(3), f.SlopeU(3))
+	}
+}

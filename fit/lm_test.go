@@ -279,3 +279,23 @@ func BenchmarkLevenbergMarquardtMisra1a(b *testing.B) {
 		}
 	}
 }
+
+func TestLevenbergMarquardtSmallLambda0(t *testing.T) {
+	// The reason for the default Lambda0 = 1e3 (see LMSettings): from NIST
+	// StRD BoxBOD start 1 (b = 1, 1), a start with little damping takes a
+	// first step to b2 ≈ 115, where exp(−b2·x) vanishes for every x ≥ 1 and
+	// the fit stalls on the plateau b2 → ∞, SSR = Σ(y − ȳ)² = 9771.5
+	// (analytic: y of BoxBOD.dat about their mean). The default reaches the
+	// certified minimum SSR = 1.1680088766E+03.
+	x, y := strdReadDat(t, "BoxBOD.dat")
+	p0 := []float64{1, 1}
+	f, _ := LevenbergMarquardt(misraModel, misraJac, x, y, p0, &LMSettings{Lambda0: 1e-3})
+	if f == nil || !approx(f.SSR, 9771.5, 1e-6, 0) {
+		t.Errorf("Lambda0 1e-3: result %+v, want the plateau SSR 9771.5", f)
+	}
+	f, err := LevenbergMarquardt(misraModel, misraJac, x, y, p0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkLRE(t, "SSR", f.SSR, 1.1680088766e+03, 6) // NIST StRD BoxBOD, certified SSR
+}
