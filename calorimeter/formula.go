@@ -35,7 +35,7 @@ type Composition map[string]float64
 const (
 	formulaMaxTotal = 1e9  // largest count, and largest number of atoms of one element
 	formulaMinTotal = 1e-6 // smallest number of atoms of one element
-	formulaMaxDepth = 32 // deepest nesting of parentheses and brackets
+	formulaMaxDepth = 32   // deepest nesting of parentheses and brackets
 )
 
 // ParseFormula reads a chemical formula into its composition.
