@@ -148,19 +148,26 @@ var formulaNoWeight = []string{
 	"Mc", "Lv", "Ts", "Og",
 }
 
+// formulaBySymbol and formulaNoWeightBy index the two lists by symbol.
+// They are package variables with initialisers (not filled in an init
+// function) so that other package variables, such as the built-in
+// standards, may compute molar masses while being initialised.
 var (
-	formulaBySymbol   = map[string]formulaElement{}
-	formulaNoWeightBy = map[string]bool{}
+	formulaBySymbol = func() map[string]formulaElement {
+		m := make(map[string]formulaElement, len(formulaElements))
+		for _, e := range formulaElements {
+			m[e.symbol] = e
+		}
+		return m
+	}()
+	formulaNoWeightBy = func() map[string]bool {
+		m := make(map[string]bool, len(formulaNoWeight))
+		for _, s := range formulaNoWeight {
+			m[s] = true
+		}
+		return m
+	}()
 )
-
-func init() {
-	for _, e := range formulaElements {
-		formulaBySymbol[e.symbol] = e
-	}
-	for _, s := range formulaNoWeight {
-		formulaNoWeightBy[s] = true
-	}
-}
 
 // AtomicWeight returns the atomic weight used for an element (the CIAAW
 // 2021 conventional value for interval elements, the standard value
