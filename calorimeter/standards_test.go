@@ -284,3 +284,142 @@ func ExampleStandard_EnthalpyAt() {
 	// kcl-srm1655: ΔH = 17.649 kJ/mol, u = 0.019 kJ/mol
 	// standard kcl-srm1655: temperature 310.00 K is outside 293.15–303.15 K, the range of its ΔCp correction: outside the range of the standard's data
 }
+
+// Reference enthalpies of solution (substances.go).
+
+func TestLookupReference(t *testing.T) {
+	tests := []struct {
+		name       string
+		in         string
+		formula    string
+		want       float64 // J/mol
+		fromMemory bool
+	}{
+		// DOMAIN §5 (NBS tables / Parker 1965), 298.15 K, infinite dilution
+		{"ammonium nitrate", "NH4NO3", "NH4NO3", 25690, false},
+		{"ammonium chloride", "NH4Cl", "NH4Cl", 14780, false},
+		{"potassium nitrate, from memory", "KNO3", "KNO3", 34890, true}, // DOMAIN §5 [M-high]
+		{"potassium chloride", "KCl", "KCl", 17220, false},
+		{"sodium chloride", "NaCl", "NaCl", 3880, false},
+		{"lithium chloride", "LiCl", "LiCl", -37030, false},
+		{"sodium hydroxide", "NaOH", "NaOH", -44510, false},
+		{"potassium hydroxide", "KOH", "KOH", -57610, false},
+		{"sodium nitrate", "NaNO3", "NaNO3", 20500, false},
+		{"calcium chloride, from memory", "CaCl2", "CaCl2", -81300, true},   // DOMAIN §5 [M-med]
+		{"magnesium sulfate, from memory", "MgSO4", "MgSO4", -91200, true}, // DOMAIN §5 [M-med]
+		{"urea, from memory", "CO(NH2)2", "CO(NH2)2", 15400, true},         // DOMAIN §5 [M-med]
+		{"urea by Hill formula", "CH4N2O", "CO(NH2)2", 15400, true},
+		{"urea by name", "Urea", "CO(NH2)2", 15400, true},
+		{"name in any case", "Ammonium Nitrate", "NH4NO3", 25690, false},
+		{"formula in lower case", "kcl", "KCl", 17220, false},
+		{"formula in another order", "ClNa", "NaCl", 3880, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r, ok := LookupReference(tt.in)
+			if !ok {
+				t.Fatalf("LookupReference(%q) found nothing", tt.in)
+			}
+			if r.Formula != tt.formula || math.Abs(r.Enthalpy-tt.want) > 1e-9 || r.FromMemory != tt.fromMemory {
+				t.Errorf("got %s %g J/mol (from memory %v), want %s %g J/mol (%v)",
+					r.Formula, r.Enthalpy, r.FromMemory, tt.formula, tt.want, tt.fromMemory)
+			}
+			if r.Source == "" || !strings.Contains(r.Conditions, "298.15 K") {
+				t.Errorf("%s: source %q, conditions %q", r.Formula, r.Source, r.Conditions)
+			}
+			if r.FromMemory != strings.Contains(r.Source, "from memory") {
+				t.Errorf("%s: FromMemory %v but source %q", r.Formula, r.FromMemory, r.Source)
+			}
+		})
+	}
+	for _, in := range []string{"CaCl2·2H2O", "CuSO4·5H2O", "sugar", "", "Na+"} {
+		if r, ok := LookupReference(in); ok {
+			t.Errorf("LookupReference(%q) = %s, want nothing (a hydrate is not its anhydrous salt)", in, r.Formula)
+		}
+	}
+}
+
+func TestKnownSign(t *testing.T) {
+	tests := []struct {
+		name    string
+		formula string
+		sign    int
+		ok      bool
+	}{
+		// DOMAIN §5: NH4NO3, KCl, KNO3, NH4Cl and urea are endothermic
+		{"ammonium nitrate", "NH4NO3", 1, true},
+		{"potassium chloride", "KCl", 1, true},
+		{"potassium nitrate", "KNO3", 1, true},
+		{"ammonium chloride", "NH4Cl", 1, true},
+		{"urea", "CO(NH2)2", 1, true},
+		// DOMAIN §5 table: negative values
+		{"sodium hydroxide", "NaOH", -1, true},
+		{"calcium chloride", "CaCl2", -1, true},
+		{"lithium chloride", "LiCl", -1, true},
+		{"not in the table", "CuSO4", 0, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			sign, ok := KnownSign(tt.formula)
+			if sign != tt.sign || ok != tt.ok {
+				t.Errorf("KnownSign(%s) = %d, %v; want %d, %v", tt.formula, sign, ok, tt.sign, tt.ok)
+			}
+		})
+	}
+}
+
+func TestCaution(t *testing.T) {
+	tests := []struct {
+		name    string
+		formula string
+		want    string // part of the caution; "" for none
+	}{
+		// DOMAIN §10: NaOH, KOH, CaCl2 and concentrated acids heat fast and can spatter
+		{"sodium hydroxide", "NaOH", "spatter"},
+		{"potassium hydroxide", "KOH", "spatter"},
+		{"calcium chloride", "CaCl2", "spatter"},
+		{"sulfuric acid", "H2SO4", "never water to acid"},
+		{"hydrochloric acid", "HCl", "fumes"},
+		{"acetic acid by composition", "C2H4O2", "glacial acetic acid"},
+		{"lithium chloride", "LiCl", "heat"},
+		{"ammonium nitrate", "NH4NO3", "oxidiser"},
+		{"sodium chloride", "NaCl", ""},
+		{"dihydrate is not the anhydrous salt", "CaCl2·2H2O", ""},
+		{"not a formula", "Na+", ""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got := Caution(tt.formula)
+			if tt.want == "" {
+				if got != "" {
+					t.Errorf("Caution(%s) = %q, want none", tt.formula, got)
+				}
+				return
+			}
+			if !strings.Contains(got, tt.want) {
+				t.Errorf("Caution(%s) = %q, want it to mention %q", tt.formula, got, tt.want)
+			}
+			// DOMAIN §10: the caution defers to the safety data sheet, the
+			// lab's local rules and licensed practice, on one line
+			for _, must := range []string{"safety data sheet", "local rules", "licensed practice"} {
+				if !strings.Contains(got, must) {
+					t.Errorf("Caution(%s) does not mention %q", tt.formula, must)
+				}
+			}
+			if strings.ContainsAny(got, "\n\r") {
+				t.Errorf("Caution(%s) is not one line", tt.formula)
+			}
+		})
+	}
+}
+
+func ExampleLookupReference() {
+	r, ok := LookupReference("NH4NO3")
+	if !ok {
+		return
+	}
+	sign, _ := KnownSign("NH4NO3")
+	fmt.Printf("%s (%s): %+.2f kJ/mol, sign %+d\n", r.Name, r.Formula, r.Enthalpy/1000, sign)
+	// Output:
+	// ammonium nitrate (NH4NO3): +25.69 kJ/mol, sign +1
+}
