@@ -305,7 +305,7 @@ func TestLookupReference(t *testing.T) {
 		{"sodium hydroxide", "NaOH", "NaOH", -44510, false},
 		{"potassium hydroxide", "KOH", "KOH", -57610, false},
 		{"sodium nitrate", "NaNO3", "NaNO3", 20500, false},
-		{"calcium chloride, from memory", "CaCl2", "CaCl2", -81300, true},   // DOMAIN §5 [M-med]
+		{"calcium chloride, from memory", "CaCl2", "CaCl2", -81300, true},  // DOMAIN §5 [M-med]
 		{"magnesium sulfate, from memory", "MgSO4", "MgSO4", -91200, true}, // DOMAIN §5 [M-med]
 		{"urea, from memory", "CO(NH2)2", "CO(NH2)2", 15400, true},         // DOMAIN §5 [M-med]
 		{"urea by Hill formula", "CH4N2O", "CO(NH2)2", 15400, true},
