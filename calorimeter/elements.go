@@ -6,7 +6,7 @@ import "math"
 // al., "Standard atomic weights of the elements 2021", Pure Appl. Chem. 94
 // (2022) 573, Table 1]. The digits below were written down from that table
 // as recalled and then compared, element by element, with a public
-// transcription of it; where the two disagreed (tin only) the comment says
+// copy of it; where the two disagreed (tin only) the comment says
 // which was kept.
 //
 // Two kinds of entry:
@@ -96,7 +96,7 @@ var formulaElements = []formulaElement{
 	{"Ag", "silver", 47, 107.8682, 0, 0, 0.0002},
 	{"Cd", "cadmium", 48, 112.414, 0, 0, 0.004},
 	{"In", "indium", 49, 114.818, 0, 0, 0.001},
-	// Tin: 118.710(7) as recalled (from memory); the transcription
+	// Tin: 118.710(7) as recalled (from memory); the copy
 	// compared against reads 118.70, taken to be a dropped digit since its
 	// own abridged value is 118.71.
 	{"Sn", "tin", 50, 118.710, 0, 0, 0.007},

@@ -90,14 +90,14 @@ func MolarMass(formula string) (m, u float64, err error) {
 }
 
 // MolarMass returns the molar mass in g/mol of the composition and its
-// standard uncertainty, as the function MolarMass does. Symbols without an
-// atomic weight contribute nothing; ParseFormula never produces them.
+// standard uncertainty, as the function MolarMass does. A symbol without
+// an atomic weight (which ParseFormula never produces) makes both NaN.
 func (c Composition) MolarMass() (m, u float64) {
 	var u2 float64
 	for _, s := range c.formulaOrder() {
 		w, uw, ok := AtomicWeight(s)
 		if !ok {
-			continue
+			return math.NaN(), math.NaN()
 		}
 		n := c[s]
 		m += n * w
@@ -279,7 +279,7 @@ func (p *formulaParser) part() (Composition, error) {
 				string(p.runes[start:p.pos]))
 		}
 		if !ok {
-			return nil, p.errorf(start, "nothing here")
+			return nil, p.unexpected()
 		}
 		return nil, p.errorf(start, "nothing before %q", r)
 	}
@@ -306,12 +306,8 @@ func (p *formulaParser) sequence(close rune) (Composition, error) {
 		if !ok || formulaIsSeparator(r) || formulaIsSpace(r) || (close != 0 && (r == ')' || r == ']')) {
 			break
 		}
-		unit, err := p.unit()
-		if err != nil {
+		if err := p.unit(c); err != nil {
 			return nil, err
-		}
-		for s, n := range unit {
-			c[s] += n
 		}
 	}
 	if p.pos == start {
@@ -320,10 +316,14 @@ func (p *formulaParser) sequence(close rune) (Composition, error) {
 	return c, nil
 }
 
-// unit reads an element symbol or a bracketed group, then an optional count.
-func (p *formulaParser) unit() (Composition, error) {
+// unit reads an element symbol or a bracketed group, then an optional
+// count, and adds the atoms to dst.
+func (p *formulaParser) unit(dst Composition) error {
 	r, _ := p.peek()
-	var c Composition
+	var (
+		group Composition // the group's atoms, or nil for a single symbol
+		sym   string
+	)
 	switch {
 	case r == '(' || r == '[':
 		open := p.pos
@@ -333,65 +333,69 @@ func (p *formulaParser) unit() (Composition, error) {
 		}
 		p.depth++
 		if p.depth > formulaMaxDepth {
-			return nil, p.errorf(open, "brackets nested deeper than %d", formulaMaxDepth)
+			return p.errorf(open, "brackets nested deeper than %d", formulaMaxDepth)
 		}
 		p.pos++
 		q, ok := p.peek()
 		if !ok {
-			return nil, p.errorf(open, "%q is never closed", r)
+			return p.errorf(open, "%q is never closed", r)
 		}
 		if q == closer {
-			return nil, p.errorf(open, "empty group %q", string(r)+string(closer))
+			return p.errorf(open, "empty group %q", string(r)+string(closer))
 		}
 		inner, err := p.sequence(closer)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		q, ok = p.peek()
 		switch {
 		case !ok:
-			return nil, p.errorf(open, "%q is never closed", r)
+			return p.errorf(open, "%q is never closed", r)
 		case q == ')' || q == ']':
 			if q != closer {
-				return nil, p.errorf(p.pos, "%q does not close %q opened at position %d", q, r, open)
+				return p.errorf(p.pos, "%q does not close %q opened at position %d", q, r, open)
 			}
 		case formulaIsSeparator(q):
-			return nil, p.errorf(p.pos, "hydrate separator %q inside brackets (write it between whole parts)", q)
+			return p.errorf(p.pos, "hydrate separator %q inside brackets (write it between whole parts)", q)
 		default:
-			return nil, p.unexpected()
+			return p.unexpected()
 		}
 		p.pos++
 		p.depth--
-		c = inner
+		group = inner
 	case r >= 'A' && r <= 'Z':
 		start := p.pos
 		p.pos++
 		for p.pos < len(p.runes) && p.runes[p.pos] >= 'a' && p.runes[p.pos] <= 'z' {
 			p.pos++
 		}
-		sym := string(p.runes[start:p.pos])
+		sym = string(p.runes[start:p.pos])
 		if _, ok := formulaBySymbol[sym]; !ok {
 			if formulaNoWeightBy[sym] {
-				return nil, p.errorf(start, "element %q has no standard atomic weight", sym)
+				return p.errorf(start, "element %q has no standard atomic weight", sym)
 			}
-			return nil, p.errorf(start, "unknown element %q", sym)
+			return p.errorf(start, "unknown element %q", sym)
 		}
-		c = Composition{sym: 1}
 	default:
-		return nil, p.unexpected()
+		return p.unexpected()
 	}
+	n := 1.0
 	if q, ok := p.peek(); ok {
 		if _, _, isDigit := formulaDigit(q); isDigit {
-			n, err := p.count()
-			if err != nil {
-				return nil, err
-			}
-			for s := range c {
-				c[s] *= n
+			var err error
+			if n, err = p.count(); err != nil {
+				return err
 			}
 		}
 	}
-	return c, nil
+	if group == nil {
+		dst[sym] += n
+		return nil
+	}
+	for s, k := range group {
+		dst[s] += k * n
+	}
+	return nil
 }
 
 // count reads digits with an optional decimal fraction, by the rule for
@@ -419,7 +423,7 @@ func (p *formulaParser) count() (float64, error) {
 	}
 	text := string(p.runes[start:end])
 	if sub {
-		text = formulaASCIIDigits(text)
+		text = intPart // subscript counts have no decimal part
 	}
 	if len(intPart) > 1 && intPart[0] == '0' {
 		return 0, p.errorf(start, "count %s has a leading zero", text)
@@ -453,18 +457,6 @@ func (p *formulaParser) digits() (ascii string, sub bool) {
 		p.pos++
 	}
 	return b.String(), sub
-}
-
-func formulaASCIIDigits(s string) string {
-	var b strings.Builder
-	for _, r := range s {
-		if d, _, ok := formulaDigit(r); ok {
-			b.WriteByte(byte('0' + d))
-		} else {
-			b.WriteRune(r)
-		}
-	}
-	return b.String()
 }
 
 // unexpected describes the character at the current position.
