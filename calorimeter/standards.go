@@ -54,7 +54,11 @@ type Standard struct {
 	// concentration.
 	Weighed bool
 
-	Enthalpy, UEnthalpy float64 // J/mol at RefTemperature and RefMolality; standard uncertainty
+	// Enthalpy is ΔH in J/mol at RefTemperature and RefMolality.
+	// UEnthalpy is the published ± taken as a standard uncertainty; the
+	// sources' coverage of that ± was not checked, and where it is wider
+	// than one standard deviation u is overstated, the safe side.
+	Enthalpy, UEnthalpy float64
 	RefTemperature      float64 // K
 	DCpDT, UDCpDT       float64 // ΔCp = dΔH/dT and its standard uncertainty, J/(mol·K)
 	TMin, TMax          float64 // K, range of the ΔCp correction
