@@ -173,6 +173,11 @@ func unitsLookup(dim Dimension, text string) (*unitsDef, bool) {
 	if !dim.valid() {
 		return nil, false
 	}
+	for i := range unitsTable[dim] { // the canonical spellings, without parsing
+		if unitsTable[dim][i].name == text {
+			return &unitsTable[dim][i], true
+		}
+	}
 	key, ok := unitsKey(text)
 	if !ok {
 		return nil, false
@@ -208,19 +213,13 @@ func unitsUnitMsg(dim Dimension, text string) string {
 	return fmt.Sprintf("unknown %s unit %q (%s)", dim, text, use)
 }
 
-// unitsUseList gives "use mg, g or kg".
+// unitsUseList gives "use mg, g or kg"; every dimension has two units or more.
 func unitsUseList(dim Dimension) string {
 	names := dim.Units()
 	for i, n := range names {
 		if n == "" {
 			names[i] = "a plain number"
 		}
-	}
-	switch len(names) {
-	case 0:
-		return "no units"
-	case 1:
-		return "use " + names[0]
 	}
 	return "use " + strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
 }

@@ -79,8 +79,15 @@ func unitsSci(x float64, q int) string {
 		return strconv.FormatFloat(math.Copysign(1, x), 'f', 0, 64) + "e" + unitsExpText(q)
 	}
 	s := strconv.FormatFloat(x, 'e', ev-q, 64)
-	if unitsExponent(s) != ev { // rounding carried into a new digit: 9.996e-07 → 1.000e-06
-		s = strconv.FormatFloat(x, 'e', ev-q+1, 64)
+	if unitsExponent(s) != ev {
+		// Rounding carried into a new leading digit, 9.9996e-07 → 1.000e-06:
+		// the mantissa is exactly 1, and one more zero keeps the last digit
+		// at 10^q (1.0000e-06).
+		mant, exp, _ := strings.Cut(s, "e")
+		if !strings.Contains(mant, ".") {
+			mant += "."
+		}
+		s = mant + "0e" + exp
 	}
 	return s
 }

@@ -262,6 +262,9 @@ func (p *unitsParser) segment(seg, role string, concise bool) (unitsSeg, string)
 	}
 	out := unitsSeg{num: num}
 	rest := strings.TrimSpace(seg[n:])
+	if !concise && unitsConciseStart(rest) {
+		return unitsSeg{}, "more than one uncertainty"
+	}
 	if concise && attached == "" && unitsConciseStart(rest) {
 		end := strings.IndexByte(rest, ')')
 		if end < 0 {
@@ -391,7 +394,10 @@ func unitsSignLen(s string) int {
 // unitsNumber converts text accepted by unitsNumberLen, enforcing the
 // decimal-mark rules. msg is non-empty when text is not a number.
 func unitsNumber(text string) (unitsNum, string) {
-	t := strings.ReplaceAll(text, "−", "-")
+	t := text
+	if strings.Contains(t, "−") {
+		t = strings.ReplaceAll(t, "−", "-")
+	}
 	mant, exp := t, ""
 	if i := strings.IndexAny(t, "eE"); i >= 0 {
 		mant, exp = t[:i], t[i+1:]
@@ -405,7 +411,9 @@ func unitsNumber(text string) (unitsNum, string) {
 	case points > 1:
 		return unitsNum{}, unitsNotNumber(text)
 	}
-	mant = strings.Replace(mant, ",", ".", 1)
+	if commas == 1 {
+		mant = strings.Replace(mant, ",", ".", 1)
+	}
 	num := unitsNum{text: text, mantissa: mant}
 	if i := strings.IndexByte(mant, '.'); i >= 0 {
 		num.decimals = len(mant) - i - 1
