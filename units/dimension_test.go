@@ -180,14 +180,14 @@ func TestToUnit(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !close(got, tc.want) {
+			if !near(got, tc.want) {
 				t.Errorf("ToUnit(%g, %v, %q) = %.17g, want %.17g", tc.value, tc.dim, tc.unit, got, tc.want)
 			}
 			back, err := FromUnit(tc.want, tc.dim, tc.unit)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !close(back, tc.value) {
+			if !near(back, tc.value) {
 				t.Errorf("FromUnit(%g, %v, %q) = %.17g, want %.17g", tc.want, tc.dim, tc.unit, back, tc.value)
 			}
 		})

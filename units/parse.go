@@ -104,7 +104,6 @@ func ParseNumber(text string) (float64, error) {
 // unitsNum is a number as written.
 type unitsNum struct {
 	text     string
-	mantissa string // with a decimal point, ready for strconv
 	value    float64
 	decimals int // digits after the decimal mark
 	exp      int // the exponent written, 0 if none
@@ -208,7 +207,7 @@ func (p *unitsParser) parse(def *unitsDef) (Quantity, string) {
 
 	q.Value = vDef.toBase(v.num.value)
 	if math.IsInf(q.Value, 0) || math.IsNaN(q.Value) {
-		return Quantity{}, fmt.Sprintf("%s is out of range", strings.TrimSpace(v.num.text+" "+q.Unit))
+		return Quantity{}, fmt.Sprintf("%s is out of range", strings.TrimSpace(v.num.text+" "+vDef.name))
 	}
 	if p.dim == Temperature && q.Value < 0 {
 		return Quantity{}, "below absolute zero (0 K = -273.15 °C = -459.67 °F)"
@@ -414,7 +413,7 @@ func unitsNumber(text string) (unitsNum, string) {
 	if commas == 1 {
 		mant = strings.Replace(mant, ",", ".", 1)
 	}
-	num := unitsNum{text: text, mantissa: mant}
+	num := unitsNum{text: text}
 	if i := strings.IndexByte(mant, '.'); i >= 0 {
 		num.decimals = len(mant) - i - 1
 	}

@@ -8,9 +8,9 @@ import (
 	"testing"
 )
 
-// close reports whether got equals want within 1e-12, absolute or relative:
+// near reports whether got equals want within 1e-12, absolute or relative:
 // the conversions are a multiplication and a division, exact to a few ulp.
-func close(got, want float64) bool {
+func near(got, want float64) bool {
 	return math.Abs(got-want) <= 1e-12*math.Max(1, math.Abs(want))
 }
 
@@ -136,7 +136,7 @@ func TestParseUnits(t *testing.T) {
 			if err != nil {
 				t.Fatalf("Parse(%q, %v): %v", tc.text, tc.dim, err)
 			}
-			if !close(q.Value, tc.want) {
+			if !near(q.Value, tc.want) {
 				t.Errorf("Parse(%q, %v).Value = %.17g %s, want %.17g", tc.text, tc.dim, q.Value, tc.dim.BaseUnit(), tc.want)
 			}
 			if q.HasU || q.U != 0 {
@@ -175,7 +175,7 @@ func TestParseDefaultUnit(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !close(q.Value, tc.want) {
+			if !near(q.Value, tc.want) {
 				t.Errorf("Parse(%q, %v, %q) = %.17g, want %.17g", tc.text, tc.dim, tc.defaultUnit, q.Value, tc.want)
 			}
 			if wantUnit := strings.TrimLeft(tc.text, "0123456789. "); q.Unit != wantUnit {
@@ -245,7 +245,7 @@ func TestParseUncertainty(t *testing.T) {
 			if err != nil {
 				t.Fatalf("Parse(%q): %v", tc.text, err)
 			}
-			if !close(q.Value, tc.value) || !close(q.U, tc.u) || !q.HasU {
+			if !near(q.Value, tc.value) || !near(q.U, tc.u) || !q.HasU {
 				t.Errorf("Parse(%q) = %.17g ± %.17g (HasU %v), want %.17g ± %.17g", tc.text, q.Value, q.U, q.HasU, tc.value, tc.u)
 			}
 			if q.Unit != tc.unit {
@@ -422,7 +422,7 @@ func TestParseNumber(t *testing.T) {
 				if err != nil {
 					t.Fatalf("ParseNumber(%q): %v", tc.text, err)
 				}
-				if !close(got, tc.want) {
+				if !near(got, tc.want) {
 					t.Errorf("ParseNumber(%q) = %.17g, want %.17g", tc.text, got, tc.want)
 				}
 				return
