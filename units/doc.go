@@ -9,8 +9,10 @@
 //
 // # Notation
 //
-// Parse accepts the unit attached or after a space, and the uncertainty in
-// the forms of JCGM 100:2008 (GUM) 7.2.2 and 7.2.4:
+// Parse accepts the unit attached or after a space, and a standard
+// uncertainty in the forms of JCGM 100:2008 (GUM) 7.2.2. The number after ±
+// is a standard uncertainty, as in the GUM's form (4) of 7.2.2, not the
+// expanded uncertainty that 7.2.4 writes with ± in reports:
 //
 //	2.503g   2503 mg   2,503 g   25.0C   25.0 °C   298.15K   300s   5min
 //	452±0.8 J/K   452+-0.8J/K   452 +/- 0.8 J/K   (452 ± 0.8) J/K
