@@ -22,10 +22,10 @@ type MonteCarloResult struct {
 	Mean         float64 `json:"mean"`                 // y, average of the model values
 	U            float64 `json:"standard_uncertainty"` // u(y), their standard deviation
 	Coverage     float64 `json:"coverage"`             // p = 0.95
-	Low          float64 `json:"low"`                  // probabilistically symmetric interval (JCGM 101 7.7.2)
-	High         float64 `json:"high"`                 //
-	ShortestLow  float64 `json:"shortest_low"`         // shortest interval (JCGM 101 7.7.3)
-	ShortestHigh float64 `json:"shortest_high"`        //
+	Low          float64 `json:"low"`                  // probabilistically symmetric interval, low end (JCGM 101 7.7.2)
+	High         float64 `json:"high"`                 // probabilistically symmetric interval, high end
+	ShortestLow  float64 `json:"shortest_low"`         // shortest interval, low end (JCGM 101 7.7.3)
+	ShortestHigh float64 `json:"shortest_high"`        // shortest interval, high end
 	GUMValidated bool    `json:"gum_validated"`        // set by ValidateGUM
 	DLow         float64 `json:"d_low"`                // |y − U − y_low| of the GUM result, set by ValidateGUM
 	DHigh        float64 `json:"d_high"`               // |y + U − y_high|, set by ValidateGUM
@@ -40,9 +40,9 @@ type MonteCarloResult struct {
 // ErrNotStabilised is returned, wrapped and together with the result so
 // far, when MonteCarloAdaptive reaches its cap of trials before the results
 // are stable.
-var ErrNotStabilised = errors.New("monte carlo results not stabilised")
+var ErrNotStabilised = errors.New("results not stabilised")
 
-// Trial numbers. The stream of trials is cut into blocks of mcBlock trials,
+// Sizes. The stream of trials is cut into blocks of mcBlock trials,
 // block b drawing from its own PCG seeded with (seed, mix(b)), so that trial
 // r has the same inputs whatever the number of workers. mcBlock divides
 // mcBatch so that the batches of the adaptive procedure are whole blocks of
@@ -119,6 +119,11 @@ func MonteCarloAdaptive(inputs []Input, corr [][]float64, f Model, seed uint64, 
 	if workers, err = mcWorkers(workers); err != nil {
 		return nil, fmt.Errorf("monte carlo: %w", err)
 	}
+	return p.adaptive(seed, workers, mcMaxTrials)
+}
+
+// adaptive runs the procedure of MonteCarloAdaptive with a cap of maxTrials.
+func (p *mcPlan) adaptive(seed uint64, workers, maxTrials int) (*MonteCarloResult, error) {
 	var (
 		y       = make([]float64, 0, 8*mcBatch)
 		scratch = make([]float64, mcBatch)
@@ -155,7 +160,7 @@ func MonteCarloAdaptive(inputs []Input, corr [][]float64, f Model, seed uint64, 
 			spread = math.Max(spread, 2*math.Sqrt(vk/float64(h)))
 		}
 		stable := spread <= delta
-		if stable || len(y)+mcBatch > mcMaxTrials {
+		if stable || len(y)+mcBatch > maxTrials {
 			r := mcSummarise(y)
 			r.Seed = seed
 			r.Adaptive = true
@@ -321,7 +326,7 @@ func mcNewPlan(inputs []Input, corr [][]float64, f Model) (*mcPlan, error) {
 // first, using workers goroutines.
 func (p *mcPlan) run(y []float64, seed uint64, first, workers int) error {
 	blocks := (len(y) + mcBlock - 1) / mcBlock
-	workers = min(workers, blocks)
+	workers = max(1, min(workers, blocks))
 	bad := make([]int, blocks) // first trial of each block with a non-finite value, +1
 	var next atomic.Int64
 	var wg sync.WaitGroup
