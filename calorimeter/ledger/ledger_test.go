@@ -160,8 +160,8 @@ func TestAppendReadRoundTrip(t *testing.T) {
 	awkward.Checks = "fore-period:warn(drift 2.1 mK/min); spikes:warn(2 excluded)"
 	awkward.MolarEnthalpyKJPerMol = math.NaN()
 	awkward.UMolarEnthalpyKJPerMol = math.NaN()
-	awkward.DeltaTK = 1.0000000000000002 // 1 + 2^-52: the next float64 after 1 (IEEE 754)
-	awkward.HeatCapacityJPerK = 5e-324   // smallest subnormal float64 (IEEE 754)
+	awkward.DeltaTK = 1.0000000000000002            // 1 + 2^-52: the next float64 after 1 (IEEE 754)
+	awkward.HeatCapacityJPerK = 5e-324              // smallest subnormal float64 (IEEE 754)
 	awkward.MolalityMolPerKg = math.Copysign(0, -1) // negative zero keeps its sign
 	awkward.SampleID = " padded "
 	awkward.InputSHA256 = ""
