@@ -90,7 +90,9 @@ func Append(path string, rows ...Row) ([]Row, error) {
 
 	appendMu.Lock()
 	defer appendMu.Unlock()
-	lock := flock.New(path + ".lock")
+	// Readable by all, like the ledger: a lab's users share one ledger, and
+	// each opens the lock file to lock it.
+	lock := flock.New(path+".lock", flock.SetPermissions(0o644))
 	if err := lock.Lock(); err != nil {
 		return nil, fmt.Errorf("append to ledger %s: lock: %w", path, err)
 	}

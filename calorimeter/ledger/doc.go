@@ -76,8 +76,8 @@
 //
 // # Lock and torn tail
 //
-// Append takes an exclusive lock (flock(2) through github.com/gofrs/flock)
-// on the file LEDGER.lock beside the ledger, reads the ledger, checks it and
+// Append takes an exclusive lock (flock(2) on Unix, LockFileEx on Windows,
+// through github.com/gofrs/flock) on the file LEDGER.lock beside the ledger, reads the ledger, checks it and
 // the new rows, writes all new rows with one write call, syncs the file to
 // disk and releases the lock. Every writer must go through Append; file
 // systems that do not honour flock, some network mounts among them, do not

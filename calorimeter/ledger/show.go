@@ -2,6 +2,7 @@ package ledger
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/json"
 	"io"
 	"math"
@@ -32,21 +33,23 @@ func (f Filter) Match(r Row) bool {
 // change, heat capacity, molar enthalpy of solution with its expanded
 // uncertainty and coverage factor, and, for a row that a later correction
 // replaced, the run_id of that correction under "replaced by" (superseded is
-// Report.Superseded or the result of Superseded). Numbers are shown as
-// stored; an empty cell stays empty.
+// Report.Superseded or the result of Superseded). Numbers are shown to six
+// significant digits (WriteJSONLines gives them as stored); an empty cell
+// stays empty.
 func WriteTable(w io.Writer, rows []Row, superseded map[string]string) error {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	var buf bytes.Buffer
+	tw := tabwriter.NewWriter(&buf, 0, 0, 2, ' ', 0)
 	io.WriteString(tw, "line\trecorded (UTC)\trun\tkind\tsample\tstatus\tΔT/K\tC/(J/K)\tΔsolH/(kJ/mol)\tU/(kJ/mol)\tk\treplaced by\n")
 	for _, r := range rows {
 		cells := []string{
 			strconv.Itoa(r.Line),
 			r.RecordedAt.UTC().Format("2006-01-02 15:04:05"),
 			r.RunID, r.Kind, r.SampleID, r.Status,
-			formatNumber(r.DeltaTK),
-			formatNumber(r.HeatCapacityJPerK),
-			formatNumber(r.MolarEnthalpyKJPerMol),
-			formatNumber(r.ExpandedUncertaintyKJPerMol),
-			formatNumber(r.CoverageFactor),
+			tableNumber(r.DeltaTK),
+			tableNumber(r.HeatCapacityJPerK),
+			tableNumber(r.MolarEnthalpyKJPerMol),
+			tableNumber(r.ExpandedUncertaintyKJPerMol),
+			tableNumber(r.CoverageFactor),
 			superseded[r.Hash],
 		}
 		for i, c := range cells {
@@ -57,7 +60,22 @@ func WriteTable(w io.Writer, rows []Row, superseded map[string]string) error {
 		}
 		io.WriteString(tw, "\n")
 	}
-	return tw.Flush()
+	tw.Flush()
+	// A row with nothing in the last columns would end in padding.
+	for line := range bytes.Lines(buf.Bytes()) {
+		if _, err := w.Write(append(bytes.TrimRight(line, " \n"), '\n')); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// tableNumber shows x to six significant digits, NaN as an empty cell.
+func tableNumber(x float64) string {
+	if math.IsNaN(x) {
+		return ""
+	}
+	return strconv.FormatFloat(x, 'g', 6, 64)
 }
 
 // tableCell keeps a cell on one table cell: a tab would split it.
