@@ -176,6 +176,23 @@ func TestTornTail(t *testing.T) {
 	}
 }
 
+func TestVerifyRowsCutFromTheEnd(t *testing.T) {
+	// doc.go: rows cut from the end leave a shorter, intact chain, which
+	// only a LastHash kept elsewhere shows.
+	lines, data := lines200(t)
+	full, err := verifyBytes(data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cut, err := verifyBytes(joinLines(lines[:150]))
+	if err != nil {
+		t.Fatalf("a ledger cut at a line end: %v", err)
+	}
+	if cut.Rows != 149 || cut.LastHash == full.LastHash {
+		t.Errorf("cut ledger: %d rows, last hash %s; want 149 rows and a last hash other than %s", cut.Rows, cut.LastHash, full.LastHash)
+	}
+}
+
 func TestSupersede(t *testing.T) {
 	row := func(id, supersedes, note string) Row {
 		r := sampleRow(0)
@@ -490,6 +507,7 @@ func TestPythonAudit(t *testing.T) {
 		{"one digit changed", joinLines(tampered), "line 51: bad hash", false},
 		{"hash recomputed", joinLines(rehashed), "line 52: broken chain", false},
 		{"torn tail", data[:len(data)-3], "torn tail", false},
+		{"header only", []byte(headerLine + "\n"), "0 rows, last hash " + genesisHash, true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -246,13 +246,13 @@ func (r *Row) check() (col int, why string) {
 		return colRunID, "is empty"
 	}
 	if !oneOf(r.Kind, kinds) {
-		return colKind, fmt.Sprintf("%q is not one of %s", r.Kind, strings.Join(kinds, ", "))
+		return colKind, fmt.Sprintf("%q is not one of %s", clip(r.Kind), strings.Join(kinds, ", "))
 	}
 	if !oneOf(r.Status, statuses) {
-		return colStatus, fmt.Sprintf("%q is not one of %s", r.Status, strings.Join(statuses, ", "))
+		return colStatus, fmt.Sprintf("%q is not one of %s", clip(r.Status), strings.Join(statuses, ", "))
 	}
 	if r.InputSHA256 != "" && !isHash(r.InputSHA256) {
-		return colInputSHA256, fmt.Sprintf("%q is not 64 lower-case hexadecimal digits", r.InputSHA256)
+		return colInputSHA256, fmt.Sprintf("%q is not 64 lower-case hexadecimal digits", clip(r.InputSHA256))
 	}
 	for _, col := range textColumns {
 		s := *r.textField(col)

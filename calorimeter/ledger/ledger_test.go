@@ -147,6 +147,17 @@ func TestHeader(t *testing.T) {
 		}
 		seen[c] = true
 	}
+	// The header that doc.go shows, on several lines, is this one.
+	doc := string(readFile(t, "doc.go"))
+	start := strings.Index(doc, "//\tledger_version,")
+	end := strings.Index(doc, "// (shown here on several lines")
+	if start < 0 || end < start {
+		t.Fatal("doc.go does not show the header")
+	}
+	shown := strings.NewReplacer("//\t", "", "\n", "", "//", "").Replace(doc[start:end])
+	if shown != headerLine {
+		t.Errorf("doc.go shows the header\n%s\nwant\n%s", shown, headerLine)
+	}
 	h[0] = "changed"
 	if Header()[0] != "ledger_version" {
 		t.Error("Header returns the package's own slice")
@@ -472,6 +483,16 @@ func TestReadRefusesCell(t *testing.T) {
 			t.Errorf("Read = %v, %v", rows, err)
 		}
 	})
+}
+
+func TestMessagesClipLongCells(t *testing.T) {
+	// A wrong file (a photo, a log) can have very long lines; messages
+	// quote at most 40 characters of a cell.
+	long := strings.Repeat("x", 5000)
+	_, err := verifyBytes([]byte(long + "\n"))
+	if err == nil || len(err.Error()) > 200 || !strings.Contains(err.Error(), strings.Repeat("x", 40)+"…") {
+		t.Errorf("error for a 5000-character first line: %.300q", err)
+	}
 }
 
 func set(col int, v string) func([]string) []string {

@@ -52,7 +52,8 @@ func (e *VerifyError) Error() string {
 	return b.String()
 }
 
-// Report sums up a ledger that Verify found intact.
+// Report sums up what Verify found: the whole ledger when it is intact, the
+// rows before the first problem when not.
 type Report struct {
 	Rows int // rows after the header
 
@@ -199,11 +200,11 @@ func headerDiff(line []byte) string {
 			return fmt.Sprintf("has %d columns, want %d: column %d %q is missing", len(cells), numColumns, i+1, want)
 		}
 		if cells[i] != want {
-			return fmt.Sprintf("column %d is %q, want %q", i+1, cells[i], want)
+			return fmt.Sprintf("column %d is %q, want %q", i+1, clip(cells[i]), want)
 		}
 	}
 	if len(cells) > numColumns {
-		return fmt.Sprintf("has %d columns, want %d: column %d %q is extra", len(cells), numColumns, numColumns+1, cells[numColumns])
+		return fmt.Sprintf("has %d columns, want %d: column %d %q is extra", len(cells), numColumns, numColumns+1, clip(cells[numColumns]))
 	}
 	return "header cells are quoted; want the plain line " + strconv.Quote(headerLine)
 }
@@ -233,12 +234,12 @@ func parseRow(line []byte) (row Row, body []byte, col int, reason, detail string
 	}
 
 	if c := cells[colVersion]; c != strconv.Itoa(Version) {
-		return bad(colVersion, "%q, want %d: the row was not written by this ledger version", c, Version)
+		return bad(colVersion, "%q, want %d: the row was not written by this ledger version", clip(c), Version)
 	}
 	c := cells[colRecordedAt]
 	t, err := time.Parse(time.RFC3339Nano, c)
 	if err != nil || !strings.HasSuffix(c, "Z") {
-		return bad(colRecordedAt, "%q is not an RFC 3339 UTC time such as 2006-01-02T15:04:05.5Z", c)
+		return bad(colRecordedAt, "%q is not an RFC 3339 UTC time such as 2006-01-02T15:04:05.5Z", clip(c))
 	}
 	row.RecordedAt = t.UTC()
 	for _, col := range textColumns {
@@ -246,9 +247,9 @@ func parseRow(line []byte) (row Row, body []byte, col int, reason, detail string
 		s := UnsafeCell(c)
 		if SafeCell(s) != c {
 			if s == c {
-				return bad(col, "%q starts with %q, which a spreadsheet runs as a formula, and is not neutralised", c, c[:1])
+				return bad(col, "%q starts with %q, which a spreadsheet runs as a formula, and is not neutralised", clip(c), c[:1])
 			}
-			return bad(col, "%q has a leading apostrophe the ledger did not write", c)
+			return bad(col, "%q has a leading apostrophe the ledger did not write", clip(c))
 		}
 		*row.textField(col) = s
 	}
@@ -260,13 +261,13 @@ func parseRow(line []byte) (row Row, body []byte, col int, reason, detail string
 		}
 		x, err := strconv.ParseFloat(c, 64)
 		if err != nil || !isPlainNumber(c) || math.IsInf(x, 0) {
-			return bad(f.col, "%q is not a finite decimal number", c)
+			return bad(f.col, "%q is not a finite decimal number", clip(c))
 		}
 		*f.v = x
 	}
 	for _, col := range []int{colPrevHash, colRowHash} {
 		if c := cells[col]; !isHash(c) {
-			return bad(col, "%q is not 64 lower-case hexadecimal digits", c)
+			return bad(col, "%q is not 64 lower-case hexadecimal digits", clip(c))
 		}
 	}
 	row.PrevHash, row.Hash = cells[colPrevHash], cells[colRowHash]
@@ -278,6 +279,14 @@ func parseRow(line []byte) (row Row, body []byte, col int, reason, detail string
 		return bad(colRowHash, "is quoted; the ledger writes hashes unquoted")
 	}
 	return row, line[:len(line)-len(tail)], -1, "", ""
+}
+
+// clip shortens a cell quoted in a message to 40 characters.
+func clip(s string) string {
+	if r := []rune(s); len(r) > 40 {
+		return string(r[:40]) + "…"
+	}
+	return s
 }
 
 // runIndex applies the run_id and supersedes rules (see Append) to rows in
