@@ -77,15 +77,15 @@ func WriteControlChart(w io.Writer, format string, chart calorimeter.ControlChar
 				i+1, points[i].Label, points[i].Time.UTC().Format(time.RFC3339), i, points[i-1].Time.UTC().Format(time.RFC3339))
 		}
 	}
-	width, height, err := opt.size()
+	wpx, hpx, err := opt.size()
 	if err != nil {
 		return fmt.Errorf("control chart: %w", err)
 	}
-	c, err := newCanvas(format, width, height)
+	c, dc, err := newCanvas(format, wpx, hpx)
 	if err != nil {
 		return fmt.Errorf("control chart: %w", err)
 	}
-	drawControl(draw.New(c), chart, points, dated, quantity, unit)
+	drawControl(dc, chart, points, dated, quantity, unit)
 	if err := write(w, c); err != nil {
 		return fmt.Errorf("control chart: write %s: %w", format, err)
 	}

@@ -11,12 +11,12 @@
 // are friendly to colorblind people" (2008), which stays distinguishable
 // under the common colour-vision deficiencies:
 //
-//	black          #000000   readings, ΔT arrow, mixing and equal-area times
-//	blue           #0072B2   fore period: band, drift line, residuals
+//	black          #000000   readings, ΔT arrow, mixing and equal-area times; centre line
+//	blue           #0072B2   fore period: band, drift line, residuals; control chart values
 //	vermillion     #D55E00   after period: band, drift line, residuals; ±3σ limits
 //	yellow         #F0E442   main period band
-//	sky blue       #56B4E9   equal area left of tₓ; control chart values
-//	orange         #E69F00   equal area right of tₓ; ±2σ limits
+//	sky blue       #56B4E9   equal area left of tₓ
+//	orange         #E69F00   equal area right of tₓ; ±2σ limits (dashed)
 //	bluish green   #009E73   fitted model curve
 //	reddish purple #CC79A7   excluded spikes; rule violations
 //
@@ -33,8 +33,9 @@
 // contributes its lowest and its highest reading (one marker when they are
 // the same reading), so spikes and the extent of the noise survive. The
 // residual panel is thinned the same way to MaxPoints/2 markers, the model
-// curve and the equal-area outlines to MaxPoints vertices. Excluded
-// readings are never thinned.
+// curve and the equal-area outlines to MaxPoints vertices. When thinned,
+// a thin stroke joins each bucket's lowest and highest point so the band of
+// noise reads as a band. Excluded readings are never thinned.
 //
 // # What is drawn, for tests and readers of the SVG
 //

@@ -20,8 +20,8 @@ import (
 )
 
 // Default and limiting figure sizes, in pixels of a PNG. SVG and PDF
-// documents get the same size in points at 96 pixels per inch (1200 px =
-// 900 pt = 12.5 in).
+// documents get the same size at 96 pixels per inch (1200 px = 900 pt =
+// 12.5 in).
 const (
 	DefaultWidth  = 1200
 	DefaultHeight = 800
@@ -38,8 +38,9 @@ const (
 // asks for the defaults.
 type Options struct {
 	// Width and Height are the size in pixels of a PNG (default
-	// 1200×800, at least 400×300); SVG and PDF take the same size in
-	// points at 96 px per inch.
+	// 1200×800, at least 400×300, at most 10000 a side); SVG and PDF take
+	// the same size at 96 px per inch (1200 px = 900 pt). Text and lines
+	// scale with the figure.
 	Width, Height int
 	// TimeUnit is the unit of the thermogram's time axis: "s", "min", or
 	// "" to choose minutes when the log spans more than 20 min.
@@ -67,20 +68,20 @@ func FormatFromName(name string) (string, error) {
 	return "", fmt.Errorf("plot file %q: extension %q is not one of .svg, .png, .pdf", name, ext)
 }
 
-// size checks the options and returns the figure size in points.
-func (o Options) size() (w, h vg.Length, err error) {
-	pw, ph := o.Width, o.Height
-	if pw == 0 {
-		pw = DefaultWidth
+// size checks the options and returns the figure size in pixels.
+func (o Options) size() (w, h int, err error) {
+	w, h = o.Width, o.Height
+	if w == 0 {
+		w = DefaultWidth
 	}
-	if ph == 0 {
-		ph = DefaultHeight
+	if h == 0 {
+		h = DefaultHeight
 	}
-	if pw < minWidth || ph < minHeight || pw > maxSide || ph > maxSide {
+	if w < minWidth || h < minHeight || w > maxSide || h > maxSide {
 		return 0, 0, fmt.Errorf("figure size %d×%d px is outside %d×%d to %d×%d px",
-			pw, ph, minWidth, minHeight, maxSide, maxSide)
+			w, h, minWidth, minHeight, maxSide, maxSide)
 	}
-	return vg.Length(pw) * vg.Inch / dpi, vg.Length(ph) * vg.Inch / dpi, nil
+	return w, h, nil
 }
 
 func (o Options) maxPoints() (int, error) {
@@ -93,17 +94,33 @@ func (o Options) maxPoints() (int, error) {
 	return o.MaxPoints, nil
 }
 
-// newCanvas returns a blank white canvas for the format.
-func newCanvas(format string, w, h vg.Length) (vg.CanvasWriterTo, error) {
+// newCanvas returns a blank canvas of w×h px for the format and the canvas
+// to draw on. Figures are laid out for the default 1200×800 px; at other
+// sizes text, lines and markers are scaled by s = min(w/1200, h/800),
+// within 0.75–4, so a larger figure looks the same, only sharper, and a
+// smaller one stays legible. A PNG gets the scale through its resolution
+// (96·s pixels per inch, crisp text); SVG and PDF documents are w×h × 0.75
+// pt (96 px per inch) and are scaled by a transform.
+func newCanvas(format string, w, h int) (vg.CanvasWriterTo, draw.Canvas, error) {
+	s := min(max(min(float64(w)/DefaultWidth, float64(h)/DefaultHeight), 0.75), 4)
 	switch strings.ToLower(format) {
-	case "svg":
-		return vgsvg.New(w, h), nil
 	case "png":
-		return vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, h), vgimg.UseDPI(dpi))}, nil
-	case "pdf":
-		return vgpdf.New(w, h), nil
+		d := int(math.Round(dpi * s))
+		wl, hl := vg.Length(w)*vg.Inch/vg.Length(d), vg.Length(h)*vg.Inch/vg.Length(d)
+		c := vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(wl, hl), vgimg.UseDPI(d))}
+		return c, draw.New(c), nil
+	case "svg", "pdf":
+		wl, hl := vg.Length(w)*vg.Inch/dpi, vg.Length(h)*vg.Inch/dpi
+		var c vg.CanvasWriterTo
+		if strings.ToLower(format) == "svg" {
+			c = vgsvg.New(wl, hl)
+		} else {
+			c = vgpdf.New(wl, hl)
+		}
+		c.Scale(s, s)
+		return c, draw.NewCanvas(c, wl/vg.Length(s), hl/vg.Length(s)), nil
 	}
-	return nil, fmt.Errorf("format %q is not one of %s", format, strings.Join(Formats, ", "))
+	return nil, draw.Canvas{}, fmt.Errorf("format %q is not one of %s", format, strings.Join(Formats, ", "))
 }
 
 // The Okabe–Ito palette (Okabe & Ito 2008, "Color Universal Design").

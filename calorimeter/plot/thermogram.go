@@ -87,15 +87,15 @@ func WriteThermogram(w io.Writer, format string, th Thermogram, opt Options) (er
 	if err != nil {
 		return fmt.Errorf("thermogram: %w", err)
 	}
-	width, height, err := opt.size()
+	wpx, hpx, err := opt.size()
 	if err != nil {
 		return fmt.Errorf("thermogram: %w", err)
 	}
-	c, err := newCanvas(format, width, height)
+	c, dc, err := newCanvas(format, wpx, hpx)
 	if err != nil {
 		return fmt.Errorf("thermogram: %w", err)
 	}
-	fig.draw(draw.New(c))
+	fig.draw(dc)
 	if err := write(w, c); err != nil {
 		return fmt.Errorf("thermogram: write %s: %w", format, err)
 	}
