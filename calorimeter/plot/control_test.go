@@ -96,10 +96,10 @@ func TestControlChartSVG(t *testing.T) {
 			if len(c) != 1 || len(l3) != 2 || len(l2) != 2 {
 				t.Fatalf("lines found: centre %v, 3σ %v, 2σ %v", c, l3, l2)
 			}
-			if !close(c[0]-l3[0], l3[1]-c[0], 1e-4) || !close(c[0]-l2[0], l2[1]-c[0], 1e-4) {
+			if !approx(c[0]-l3[0], l3[1]-c[0], 1e-4) || !approx(c[0]-l2[0], l2[1]-c[0], 1e-4) {
 				t.Errorf("limits not symmetric about the centre: %v %v %v", l3, l2, c)
 			}
-			if r := (l2[1] - c[0]) / (l3[1] - c[0]); !close(r, 2.0/3, 1e-4) {
+			if r := (l2[1] - c[0]) / (l3[1] - c[0]); !approx(r, 2.0/3, 1e-4) {
 				t.Errorf("2σ/3σ distance ratio %.6f, want 2/3", r)
 			}
 		})

@@ -139,6 +139,15 @@ func newThermoFigure(th Thermogram, opt Options) (*thermoFigure, error) {
 			return nil, fmt.Errorf("reading %d at %g s is earlier than reading %d at %g s", i+1, t, i, th.Time[i-1])
 		}
 	}
+	for _, l := range []struct {
+		name string
+		p    [2]float64
+		l    Line
+	}{{"fore", th.Pre, th.PreLine}, {"after", th.Post, th.PostLine}} {
+		if has(l.p) && !(finite(l.l.Slope) && finite(l.l.Intercept)) {
+			return nil, fmt.Errorf("%s drift line %g K + %g K/s·t is not finite", l.name, l.l.Intercept, l.l.Slope)
+		}
+	}
 	if th.Residuals != nil && len(th.Residuals) != n {
 		return nil, fmt.Errorf("%d residuals for %d readings", len(th.Residuals), n)
 	}

@@ -9,7 +9,7 @@ import (
 	"testing"
 )
 
-func close(got, want, tol float64) bool {
+func approx(got, want, tol float64) bool {
 	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want))
 }
 
@@ -122,11 +122,11 @@ func TestThermogramLines(t *testing.T) {
 			t.Fatalf("%s line: solid found %v, dashed found %v", p.name, ok1, ok2)
 		}
 		ws, wd := s[1][0]-s[0][0], d[1][0]-d[0][0]
-		if !close(ws/wd, p.solid/p.dashed, 1e-3) { // SVG coordinates carry 5 digits
+		if !approx(ws/wd, p.solid/p.dashed, 1e-3) { // SVG coordinates carry 5 digits
 			t.Errorf("%s line: solid/dashed widths %.5g/%.5g, want ratio %.4g", p.name, ws, wd, p.solid/p.dashed)
 		}
 		slopeS, slopeD := (s[1][1]-s[0][1])/ws, (d[1][1]-d[0][1])/wd
-		if !close(slopeS, slopeD, 0.02) {
+		if !approx(slopeS, slopeD, 0.02) {
 			t.Errorf("%s line: extrapolation slope %.5g differs from the fitted %.5g", p.name, slopeD, slopeS)
 		}
 		a, b := s[1], d[0] // fore: solid end meets dashed start
@@ -326,6 +326,7 @@ func TestThermogramErrors(t *testing.T) {
 		{"excluded index", mod(func(th *Thermogram) { th.Excluded = []int{101} }), "svg", Options{}, "excluded reading index 101 is outside 0…100"},
 		{"residuals", mod(func(th *Thermogram) { th.Residuals = []float64{1} }), "svg", Options{}, "1 residuals for 101 readings"},
 		{"curve", mod(func(th *Thermogram) { th.Curve = []float64{1, 2} }), "svg", Options{}, "2 model curve values"},
+		{"drift line", mod(func(th *Thermogram) { th.PostLine.Slope = math.Inf(1) }), "svg", Options{}, "after drift line"},
 		{"time unit", good, "svg", Options{TimeUnit: "h"}, `time unit "h" is not one of s, min`},
 		{"size", good, "png", Options{Width: 100, Height: 80}, "figure size 100×80 px is outside"},
 		{"max points", good, "svg", Options{MaxPoints: 10}, "10 drawn points is below the least of 100"},
