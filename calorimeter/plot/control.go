@@ -31,7 +31,7 @@ type ChartPoint struct {
 // points gives the time and run id of each value of chart.Values, in the
 // same order; its Values must equal the chart's (to 1 part in 10⁹) so that
 // a chart and its points cannot be paired by mistake. When every point has
-// a time the x axis is the date (UTC) and the times must not decrease;
+// a time and the times do not decrease, the x axis is the date (UTC);
 // otherwise, or when points is nil, it is the run order 1, 2, ….
 //
 // The values are joined in order by a line; the centre is drawn solid
@@ -66,15 +66,13 @@ func WriteControlChart(w io.Writer, format string, chart calorimeter.ControlChar
 			return fmt.Errorf("control chart: centre or limit %v is not a finite number", l)
 		}
 	}
+	// Dates only when every point has one and they keep the run order
+	// (a clock set back between two runs falls back to run order).
 	dated := points != nil
 	for i := range points {
-		if points[i].Time.IsZero() {
+		if points[i].Time.IsZero() || (i > 0 && points[i].Time.Before(points[i-1].Time)) {
 			dated = false
 			break
-		}
-		if i > 0 && points[i].Time.Before(points[i-1].Time) {
-			return fmt.Errorf("control chart: point %d (%s) at %s is earlier than point %d at %s",
-				i+1, points[i].Label, points[i].Time.UTC().Format(time.RFC3339), i, points[i-1].Time.UTC().Format(time.RFC3339))
 		}
 	}
 	wpx, hpx, err := opt.size()
