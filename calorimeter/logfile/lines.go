@@ -27,7 +27,7 @@ func (e *lineEnds) split(data []byte, atEOF bool) (int, []byte, error) {
 	}
 	cr := bytes.IndexByte(data[:end], '\r')
 	switch {
-	case lf >= 0 && cr == lf-1:
+	case lf > 0 && cr == lf-1:
 		e.note(true)
 		return lf + 1, data[:cr], nil
 	case cr >= 0 && cr < len(data)-1:

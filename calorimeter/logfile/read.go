@@ -217,7 +217,8 @@ type reader struct {
 	log  *Log
 	sc   *bufio.Scanner
 	ends lineEnds
-	line int // line number of the last line scanned
+	line int  // line number of the last line scanned
+	eof  bool // the sniffing window holds the whole input
 
 	delim  byte
 	dec    byte // decimal mark; 0 until a number shows it
@@ -275,6 +276,7 @@ func (rd *reader) window() ([]winLine, error) {
 			return nil, err
 		}
 		if !ok {
+			rd.eof = true
 			break
 		}
 		if !isBlanks(s) && !isComment(s) {
@@ -448,6 +450,9 @@ func (rd *reader) parseTemperature(num int, s string) (float64, error) {
 	}
 	k := toKelvin(v, rd.tempUnit)
 	if !(k >= 0) || math.IsInf(k, 0) {
+		if rd.tempUnit == "K" {
+			return 0, rd.errf(num, col, "temperature %s K is below absolute zero", s)
+		}
 		return 0, rd.errf(num, col, "temperature %s %s is %s K, below absolute zero", s, unitSymbol(rd.tempUnit), formatNumber(k, 6))
 	}
 	return k, nil

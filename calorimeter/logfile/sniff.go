@@ -33,23 +33,34 @@ func (rd *reader) sniff(win []winLine) (int, error) {
 	}
 	bestScore, k := 0, 0
 	for _, c := range cands {
-		counts := map[int]int{}
+		counts, seen := map[int]int{}, map[int]int{}
 		for i := range win {
 			if !text(i) {
 				continue
 			}
 			if f, bad := splitFields(nil, win[i].text, c); bad == 0 && isData(f) {
+				if counts[len(f)] == 0 {
+					seen[len(f)] = i
+				}
 				counts[len(f)]++
 			}
 		}
-		for n, score := range counts {
-			if score > bestScore || (score == bestScore && rd.delim == c && n > k) {
-				bestScore, k, rd.delim = score, n, c
+		// The commonest field count; of two as common, the one seen first.
+		n, score := 0, 0
+		for m, sc := range counts {
+			if sc > score || (sc == score && seen[m] < seen[n]) {
+				n, score = m, sc
 			}
+		}
+		if score > bestScore {
+			bestScore, k, rd.delim = score, n, c
 		}
 	}
 	if bestScore == 0 {
 		for i := range win {
+			if text(i) && rd.eof {
+				return 0, rd.errf(0, 0, "no data lines: want a column of times and one of temperatures")
+			}
 			if text(i) {
 				return 0, rd.errf(0, 0, "no data lines in the first %d lines: want a column of times and one of temperatures", win[len(win)-1].num)
 			}
@@ -147,7 +158,7 @@ func (rd *reader) sniff(win []winLine) (int, error) {
 	if err := rd.roles(names, stats, win, first); err != nil {
 		return 0, err
 	}
-	if err := rd.units(stats); err != nil {
+	if err := rd.units(stats, win[first].num); err != nil {
 		return 0, err
 	}
 	rd.log.Columns = rd.cols
@@ -258,9 +269,7 @@ func (rd *reader) roles(names []string, stats []colStats, win []winLine, first i
 			rd.tempAt = rd.choose(isTemp, rd.timeAt, "temperature")
 		}
 	}
-	where := "no column is named as time"
 	if names == nil {
-		where = "no header line"
 		line = win[first].num
 	}
 	if rd.timeAt < 0 {
@@ -274,19 +283,20 @@ func (rd *reader) roles(names []string, stats []colStats, win []winLine, first i
 			rd.timeAt = firstNumeric(stats, rd.tempAt)
 		}
 		if rd.timeAt < 0 {
-			return rd.errf(line, 0, "no time column: %s and none holds times", where)
+			return rd.errf(line, 0, "no time column: none is named as time or holds times")
 		}
-		rd.warnf(line, "%s: using column %d %q as time", where, rd.timeAt+1, rd.cols[rd.timeAt].Name)
+		if names != nil {
+			rd.warnf(line, "no column is named as time: using column %d %q", rd.timeAt+1, rd.cols[rd.timeAt].Name)
+		}
 	}
 	if rd.tempAt < 0 {
-		if names != nil {
-			where = "no column is named as temperature"
-		}
 		rd.tempAt = firstNumeric(stats, rd.timeAt)
 		if rd.tempAt < 0 {
-			return rd.errf(line, 0, "no temperature column: %s and no other column holds numbers", where)
+			return rd.errf(line, 0, "no temperature column: none is named as temperature and no other holds numbers")
 		}
-		rd.warnf(line, "%s: using column %d %q as temperature", where, rd.tempAt+1, rd.cols[rd.tempAt].Name)
+		if names != nil {
+			rd.warnf(line, "no column is named as temperature: using column %d %q", rd.tempAt+1, rd.cols[rd.tempAt].Name)
+		}
 	}
 	used := map[string]bool{}
 	for j := range rd.cols {
@@ -331,7 +341,9 @@ func (rd *reader) choose(is func(Column) bool, skip int, what string) int {
 		for _, j := range found {
 			list = append(list, fmt.Sprintf("%d %q", j+1, rd.cols[j].Name))
 		}
-		rd.warnf(rd.log.Dialect.HeaderLine, "columns %s all look like %s: using column %d", strings.Join(list, ", "), what, found[0]+1)
+		last := len(list) - 1
+		rd.warnf(rd.log.Dialect.HeaderLine, "columns %s and %s each name %s: using column %d",
+			strings.Join(list[:last], ", "), list[last], what, found[0]+1)
 	}
 	return found[0]
 }
@@ -367,7 +379,7 @@ func (rd *reader) pick(spec, what string, names []string) (int, error) {
 }
 
 // units settles the time unit, the temperature unit and the decimal mark.
-func (rd *reader) units(stats []colStats) error {
+func (rd *reader) units(stats []colStats, firstLine int) error {
 	d := &rd.log.Dialect
 	line := d.HeaderLine
 	tc := rd.cols[rd.timeAt]
@@ -395,7 +407,9 @@ func (rd *reader) units(stats []colStats) error {
 		return rd.errf(line, rd.timeAt+1, "column %d %q: time unit %q is not s, min, h, ms, mm:ss, hh:mm:ss or iso8601", rd.timeAt+1, tc.Name, tc.Unit)
 	default:
 		rd.timeUnit = "s"
-		rd.warnf(line, "column %d %q: no time unit given: assuming seconds", rd.timeAt+1, tc.Name)
+		if line > 0 {
+			rd.warnf(line, "column %d %q: no time unit given: assuming seconds", rd.timeAt+1, tc.Name)
+		}
 	}
 	d.TimeUnit = rd.timeUnit
 	switch rd.timeUnit {
@@ -422,9 +436,15 @@ func (rd *reader) units(stats []colStats) error {
 		return rd.errf(line, rd.tempAt+1, "column %d %q: temperature unit %q is not °C, K or °F", rd.tempAt+1, Tc.Name, Tc.Unit)
 	default:
 		rd.tempUnit = "C"
-		rd.warnf(line, "column %d %q: no temperature unit given: assuming °C", rd.tempAt+1, Tc.Name)
+		if line > 0 {
+			rd.warnf(line, "column %d %q: no temperature unit given: assuming °C", rd.tempAt+1, Tc.Name)
+		}
 	}
 	d.TemperatureUnit = rd.tempUnit
+	if line == 0 {
+		rd.warnf(firstLine, "no header line: taking column %d as time in %s and column %d as temperature in %s",
+			rd.timeAt+1, unitWords[rd.timeUnit], rd.tempAt+1, unitSymbol(rd.tempUnit))
+	}
 
 	switch {
 	case rd.opt.Decimal != 0:
@@ -443,11 +463,17 @@ func (rd *reader) units(stats []colStats) error {
 		switch {
 		case commas > points:
 			rd.dec = ','
-		case points > 0:
+		case points > commas:
 			rd.dec = '.'
-		}
+		} // as many of each (or none): the first number with a mark decides
 	}
 	return nil
+}
+
+// unitWords names the time units in prose.
+var unitWords = map[string]string{
+	"s": "seconds", "min": "minutes", "h": "hours", "ms": "milliseconds",
+	"mm:ss": "mm:ss", "hh:mm:ss": "hh:mm:ss", "hh:mm": "hh:mm", "iso8601": "ISO 8601 timestamps",
 }
 
 // meta collects "# key: value" comment lines above the data.

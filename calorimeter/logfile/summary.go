@@ -191,7 +191,7 @@ func (s Summary) WriteText(w io.Writer) error {
 	row := func(label string, cells ...string) {
 		fmt.Fprintln(tw, label+"\t"+strings.Join(cells, "\t"))
 	}
-	format := s.Delimiter + "-separated, decimal " + s.DecimalMark + ", " + strings.ToUpper(s.Encoding)
+	format := s.Delimiter + "-separated, decimal " + s.DecimalMark + ", " + encodingNames[s.Encoding]
 	if s.BOM {
 		format += " with byte order mark"
 	}
@@ -200,11 +200,12 @@ func (s Summary) WriteText(w io.Writer) error {
 	}
 	row("file", s.File)
 	row("format", format)
+	preamble := plural(s.PreambleLines, "preamble line")
 	switch {
 	case s.HeaderLine > 0:
-		row("header", fmt.Sprintf("line %d, after %d preamble lines", s.HeaderLine, s.PreambleLines))
+		row("header", fmt.Sprintf("line %d, after %s", s.HeaderLine, preamble))
 	default:
-		row("header", fmt.Sprintf("none, %d preamble lines", s.PreambleLines))
+		row("header", "none, "+preamble)
 	}
 	for i, c := range s.Columns {
 		label := ""
@@ -230,7 +231,7 @@ func (s Summary) WriteText(w io.Writer) error {
 	if s.SpanS >= 120 {
 		span += " (" + formatNumber(s.SpanS/60, 2) + " min)"
 	}
-	row("readings", fmt.Sprintf("%d over %s", s.Points, span))
+	row("readings", fmt.Sprintf("%s over %s", plural(s.Points, "reading"), span))
 	row("interval", fmt.Sprintf("%s s median, %s s to %s s",
 		formatNumber(s.IntervalS, 3), formatNumber(s.IntervalMinS, 3), formatNumber(s.IntervalMaxS, 3)))
 	row("temperature", fmt.Sprintf("%s K to %s K (%s °C to %s °C)",
@@ -277,6 +278,18 @@ func (s Summary) WriteText(w io.Writer) error {
 		row(label, m)
 	}
 	return tw.Flush()
+}
+
+var encodingNames = map[string]string{
+	"utf-8": "UTF-8", "utf-16le": "UTF-16LE", "utf-16be": "UTF-16BE", "latin-1": "Latin-1 (ISO 8859-1)",
+}
+
+// plural writes "1 reading", "2 readings".
+func plural(n int, thing string) string {
+	if n == 1 {
+		return "1 " + thing
+	}
+	return strconv.Itoa(n) + " " + thing + "s"
 }
 
 // lineList writes line numbers as "none" or "lines 12, 13".
