@@ -618,6 +618,32 @@ func TestReadText(t *testing.T) {
 			},
 		},
 		{
+			name:     "a comment that names no quantity is not the header",
+			in:       "# raw data\n 0 290\n10 291\n",
+			times:    []float64{0, 10},
+			kelvin:   []float64{290 + 273.15, 291 + 273.15},
+			warnings: []string{"x.csv:2: no header line: taking column 1 as time in seconds and column 2 as temperature in °C"},
+		},
+		{
+			name:     "time found by its clock times",
+			in:       "Datum;Wert (K)\n10:15:00;290,5\n10:15:10;290,6\n",
+			times:    []float64{0, 10},
+			kelvin:   []float64{290.5, 290.6},
+			warnings: []string{`x.csv:1: no column is named as time: using column 1 "Datum"`},
+		},
+		{
+			name:   "a column chosen by its header text; extra columns stay as written",
+			in:     "time (s),T vessel (°C),T jacket (°C)\n0,22.4,25.0\n",
+			opt:    Options{TemperatureColumn: "t vessel (°c)"},
+			times:  []float64{0},
+			kelvin: []float64{295.55},
+			check: func(t *testing.T, l *Log) {
+				if j := l.Extra["T jacket"]; len(j) != 1 || !near(j[0], 25.0, 1e-12) {
+					t.Errorf("extra T jacket = %v °C, want [25]", j)
+				}
+			},
+		},
+		{
 			name:   "equal times are kept",
 			in:     "t (s),T (K)\n0,290\n0,291\n5,292\n",
 			times:  []float64{0, 0, 5},

@@ -117,8 +117,9 @@ func Summarise(l *Log) Summary {
 	if len(l.Temperature) == 0 {
 		s.TemperatureMinK, s.TemperatureMaxK = 0, 0
 	} else {
-		s.TemperatureMinC = s.TemperatureMinK - zeroCelsiusInK
-		s.TemperatureMaxC = s.TemperatureMaxK - zeroCelsiusInK
+		s.TemperatureMinK, s.TemperatureMaxK = nano(s.TemperatureMinK), nano(s.TemperatureMaxK)
+		s.TemperatureMinC = nano(s.TemperatureMinK - zeroCelsiusInK)
+		s.TemperatureMaxC = nano(s.TemperatureMaxK - zeroCelsiusInK)
 	}
 	if n < 2 {
 		return s
@@ -145,6 +146,16 @@ func Summarise(l *Log) Summary {
 		}
 	}
 	return s
+}
+
+// nano rounds a temperature to 1 nK, far below any thermometer's
+// resolution, so that 24.952 °C read back from 298.102 K prints as written
+// and not as 24.951999999999998.
+func nano(x float64) float64 {
+	if math.Abs(x) > 1e9 {
+		return x
+	}
+	return math.Round(x*1e9) / 1e9
 }
 
 // median of sorted values: the middle one, or the mean of the two middle ones.
@@ -231,7 +242,7 @@ func (s Summary) WriteText(w io.Writer) error {
 	if s.SpanS >= 120 {
 		span += " (" + formatNumber(s.SpanS/60, 2) + " min)"
 	}
-	row("readings", fmt.Sprintf("%s over %s", plural(s.Points, "reading"), span))
+	row("span", fmt.Sprintf("%s over %s", plural(s.Points, "reading"), span))
 	row("interval", fmt.Sprintf("%s s median, %s s to %s s",
 		formatNumber(s.IntervalS, 3), formatNumber(s.IntervalMinS, 3), formatNumber(s.IntervalMaxS, 3)))
 	row("temperature", fmt.Sprintf("%s K to %s K (%s °C to %s °C)",
