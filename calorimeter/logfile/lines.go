@@ -62,6 +62,9 @@ func isComment(s string) bool {
 	return s != "" && s[0] == '#'
 }
 
+// isText reports whether s is a line of text: not blank, not a comment.
+func isText(s string) bool { return !isBlanks(s) && !isComment(s) }
+
 // splitFields splits a line at the delimiter d, appending the fields to
 // dst[:0]. A space delimiter means runs of spaces and tabs. Blanks around a
 // field are trimmed and a field in double quotes ("" inside for a quote) is

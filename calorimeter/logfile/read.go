@@ -279,7 +279,7 @@ func (rd *reader) window() ([]winLine, error) {
 			rd.eof = true
 			break
 		}
-		if !isBlanks(s) && !isComment(s) {
+		if isText(s) {
 			text++
 		}
 		win = append(win, winLine{rd.line, s})
@@ -298,7 +298,7 @@ func (rd *reader) warnf(line int, format string, a ...any) {
 
 // row reads one line after the header.
 func (rd *reader) row(num int, text string) error {
-	if isBlanks(text) || isComment(text) {
+	if !isText(text) {
 		return nil
 	}
 	f, bad := splitFields(rd.fields, text, rd.delim)

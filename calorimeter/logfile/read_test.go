@@ -738,8 +738,8 @@ func TestReadTextErrors(t *testing.T) {
 		line, col int
 		msg       string
 	}{
-		{"mixed decimal marks", "t (s);T (°C)\n0;20,5\n10;20.6\n20;20,7\n", Options{}, 3, 2,
-			`x.csv:3: temperature "20.6" has a decimal point, but this file uses decimal commas`},
+		{"mixed decimal marks: the more common wins", "t (s);T (°C)\n0;20.5\n10;20,6\n20;20,7\n", Options{}, 2, 2,
+			`x.csv:2: temperature "20.5" has a decimal point, but this file uses decimal commas`},
 		{"a decimal comma in a comma file", "t (s),T (°C)\n0,20.5\n10,\"20,6\"\n", Options{}, 3, 2,
 			`x.csv:3: temperature "20,6" has a decimal comma, but this file uses decimal points`},
 		{"wrong field count", "t (s),T (K)\n0,290\n1,291,5\n", Options{}, 3, 0,

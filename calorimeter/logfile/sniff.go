@@ -2,6 +2,7 @@ package logfile
 
 import (
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode"
@@ -24,7 +25,7 @@ func (rd *reader) sniff(win []winLine) (int, error) {
 			}
 		}
 	}
-	text := func(i int) bool { return !isBlanks(win[i].text) && !isComment(win[i].text) }
+	text := func(i int) bool { return isText(win[i].text) }
 
 	// The delimiter: the one that gives the most data lines of one field count.
 	cands := sniffDelimiters
@@ -57,15 +58,13 @@ func (rd *reader) sniff(win []winLine) (int, error) {
 		}
 	}
 	if bestScore == 0 {
-		for i := range win {
-			if text(i) && rd.eof {
-				return 0, rd.errf(0, 0, "no data lines: want a column of times and one of temperatures")
-			}
-			if text(i) {
-				return 0, rd.errf(0, 0, "no data lines in the first %d lines: want a column of times and one of temperatures", win[len(win)-1].num)
-			}
+		switch {
+		case !slices.ContainsFunc(win, func(l winLine) bool { return isText(l.text) }):
+			return 0, rd.errf(0, 0, "no readings")
+		case rd.eof:
+			return 0, rd.errf(0, 0, "no data lines: want a column of times and one of temperatures")
 		}
-		return 0, rd.errf(0, 0, "no readings")
+		return 0, rd.errf(0, 0, "no data lines in the first %d lines: want a column of times and one of temperatures", win[len(win)-1].num)
 	}
 	fields := make([][]string, len(win))
 	first := -1
@@ -155,7 +154,7 @@ func (rd *reader) sniff(win []winLine) (int, error) {
 			c.Name = "column " + strconv.Itoa(j+1)
 		}
 	}
-	if err := rd.roles(names, stats, win, first); err != nil {
+	if err := rd.roles(names, stats, win[first].num); err != nil {
 		return 0, err
 	}
 	if err := rd.units(stats, win[first].num); err != nil {
@@ -236,7 +235,7 @@ func (s *colStats) mostly() cellKind {
 // roles picks the time and temperature columns: as the options say, else
 // by unit, else by name, else by content; the rest are extra (numeric) or
 // ignored.
-func (rd *reader) roles(names []string, stats []colStats, win []winLine, first int) error {
+func (rd *reader) roles(names []string, stats []colStats, firstLine int) error {
 	line := rd.log.Dialect.HeaderLine
 	rd.timeAt, rd.tempAt = -1, -1
 	var err error
@@ -270,7 +269,7 @@ func (rd *reader) roles(names []string, stats []colStats, win []winLine, first i
 		}
 	}
 	if names == nil {
-		line = win[first].num
+		line = firstLine
 	}
 	if rd.timeAt < 0 {
 		for j := range stats {
@@ -324,8 +323,8 @@ func (rd *reader) roles(names []string, stats []colStats, win []winLine, first i
 	return nil
 }
 
-// choose returns the first column that is picks, other than skip, warning
-// when there are several; -1 when none is.
+// choose returns the first column for which is holds, other than skip,
+// warning when there are several; -1 when there is none.
 func (rd *reader) choose(is func(Column) bool, skip int, what string) int {
 	var found []int
 	for j, c := range rd.cols {
