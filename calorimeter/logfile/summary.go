@@ -66,7 +66,7 @@ func Summarise(l *Log) Summary {
 	s := Summary{
 		File:            l.Name,
 		Delimiter:       delimiterName(d.Delimiter),
-		DecimalMark:     markName(byte(d.Decimal)),
+		DecimalMark:     map[rune]string{'.': "point", ',': "comma"}[d.Decimal],
 		Encoding:        d.Encoding,
 		BOM:             d.BOM,
 		CRLF:            d.CRLF,
@@ -180,7 +180,7 @@ func delimiterName(d rune) string {
 	case ' ':
 		return "spaces"
 	}
-	return strconv.QuoteRune(d)
+	return ""
 }
 
 // clockText writes seconds since midnight as hh:mm:ss with any fraction;
@@ -202,15 +202,23 @@ func (s Summary) WriteText(w io.Writer) error {
 	row := func(label string, cells ...string) {
 		fmt.Fprintln(tw, label+"\t"+strings.Join(cells, "\t"))
 	}
-	format := s.Delimiter + "-separated, decimal " + s.DecimalMark + ", " + encodingNames[s.Encoding]
-	if s.BOM {
-		format += " with byte order mark"
+	var format []string
+	if s.Delimiter != "" {
+		format = append(format, s.Delimiter+"-separated")
+	}
+	if s.DecimalMark != "" {
+		format = append(format, "decimal "+s.DecimalMark)
+	}
+	if enc := encodingNames[s.Encoding]; enc != "" && s.BOM {
+		format = append(format, enc+" with byte order mark")
+	} else if enc != "" {
+		format = append(format, enc)
 	}
 	if s.CRLF {
-		format += ", CRLF line ends"
+		format = append(format, "CRLF line ends")
 	}
 	row("file", s.File)
-	row("format", format)
+	row("format", strings.Join(format, ", "))
 	preamble := plural(s.PreambleLines, "preamble line")
 	switch {
 	case s.HeaderLine > 0:
