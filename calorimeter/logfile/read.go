@@ -237,7 +237,7 @@ type reader struct {
 
 	started  bool
 	first    float64   // first reading's time value (numeric in its unit, else seconds)
-	first16  time.Time // first timestamp
+	firstStamp  time.Time // first timestamp
 	dayShift float64   // seconds added to a clock after midnight
 	prevRaw  float64   // previous reading's clock, shifted
 	prev     float64   // previous reading's elapsed time, s
@@ -311,7 +311,7 @@ func (rd *reader) row(num int, text string) error {
 	}
 	if len(f) != rd.ncol {
 		if len(f) < rd.ncol || !allEmpty(f[rd.ncol:]) {
-			return rd.errf(num, 0, "%d fields, want %d as in the %s", len(f), rd.ncol, rd.shape())
+			return rd.errf(num, 0, "%s, want %d as in the %s", plural(len(f), "field"), rd.ncol, rd.shape())
 		}
 		f = f[:rd.ncol]
 	}
@@ -492,7 +492,7 @@ func (rd *reader) elapsed(num int, s string, tv timeValue) (float64, error) {
 	switch rd.log.Dialect.TimeBase {
 	case "timestamp":
 		if !rd.started {
-			rd.first16 = tv.ts
+			rd.firstStamp = tv.ts
 			rd.log.Start = tv.ts
 			d.Offset = tv.zone
 		} else if tv.zone != d.Offset {
@@ -501,7 +501,7 @@ func (rd *reader) elapsed(num int, s string, tv timeValue) (float64, error) {
 			}
 			return 0, rd.errf(num, rd.timeAt+1, "time %q has a UTC offset, unlike the first reading", s)
 		}
-		t = float64(tv.ts.Unix()-rd.first16.Unix()) + float64(tv.ts.Nanosecond()-rd.first16.Nanosecond())*1e-9
+		t = float64(tv.ts.Unix()-rd.firstStamp.Unix()) + float64(tv.ts.Nanosecond()-rd.firstStamp.Nanosecond())*1e-9
 	case "clock":
 		c := tv.v + rd.dayShift
 		if rd.started && c < rd.prevRaw-clockTurnover {

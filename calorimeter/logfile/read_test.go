@@ -745,7 +745,7 @@ func TestReadTextErrors(t *testing.T) {
 		{"wrong field count", "t (s),T (K)\n0,290\n1,291,5\n", Options{}, 3, 0,
 			`x.csv:3: 3 fields, want 2 as in the header (line 1)`},
 		{"short row", "t (s),T (K)\n0,290\n1\n", Options{}, 3, 0,
-			`x.csv:3: 1 fields, want 2 as in the header (line 1)`},
+			`x.csv:3: 1 field, want 2 as in the header (line 1)`},
 		{"quote not closed", "t (s),T (K)\n0,290\n1,\"291\n", Options{}, 3, 2,
 			`x.csv:3: column 2: quote not closed or followed by text`},
 		{"bad timestamp", "timestamp,T (K)\n2026-03-04T10:15:02,290\n2026-02-30T10:15:03,290\n", Options{}, 3, 1,
