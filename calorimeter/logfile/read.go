@@ -235,14 +235,14 @@ type reader struct {
 	factor   float64 // seconds per unit for numeric time
 	tempUnit string
 
-	started  bool
-	first    float64   // first reading's time value (numeric in its unit, else seconds)
-	firstStamp  time.Time // first timestamp
-	dayShift float64   // seconds added to a clock after midnight
-	prevRaw  float64   // previous reading's clock, shifted
-	prev     float64   // previous reading's elapsed time, s
-	prevLine int
-	blanks   int // rows skipped for blank cells
+	started    bool
+	first      float64   // first reading's time value (numeric in its unit, else seconds)
+	firstStamp time.Time // first timestamp
+	dayShift   float64   // seconds added to a clock after midnight
+	prevRaw    float64   // previous reading's clock, shifted
+	prev       float64   // previous reading's elapsed time, s
+	prevLine   int
+	blanks     int // rows skipped for blank cells
 }
 
 // winLine is a line buffered for sniffing.
