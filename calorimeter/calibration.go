@@ -1,0 +1,706 @@
+package calorimeter
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strings"
+	"time"
+)
+
+// Calibration methods (CONTRACT: calibration_method).
+const (
+	MethodElectrical = "electrical"
+	MethodStandard   = "standard"
+	MethodMixing     = "mixing"
+)
+
+// CalibrationFormat is the version of the calibration file written by
+// WriteCalibration. Files of a newer version are refused.
+const CalibrationFormat = 1
+
+// Electrical describes an electrical calibration: give Power and Time, or
+// Voltage, Current and Time, or Energy (a heater-power column integrated
+// over time, see HeaterEnergy). Values in W, s, V, A, J with standard
+// uncertainties.
+type Electrical struct {
+	Power, UPower     float64
+	Time, UTime       float64
+	Voltage, UVoltage float64
+	Current, UCurrent float64
+	Energy, UEnergy   float64
+}
+
+// ChemicalCalibration is a run that dissolves (or reacts) a mass of a
+// calibration standard with certified enthalpy.
+type ChemicalCalibration struct {
+	Standard    Standard
+	Mass, UMass     float64 // g (for standards that are weighed)
+	Amount, UAmount float64 // mol of the limiting reagent, for standards that are not weighed (neutralisation)
+	SolventMass     float64 // g, for the final molality (0 = the standard's reference molality)
+}
+
+// Mixing is a hot/cold water mixing calibration: ColdMass of water in the
+// vessel, HotMass of water at HotTemperature (K) poured in at the mixing time.
+type Mixing struct {
+	ColdMass, UColdMass           float64 // g
+	HotMass, UHotMass             float64 // g
+	HotTemperature, UHotTemperature float64 // K
+}
+
+// CalibrationSetup is everything a calibration run needs besides its log.
+type CalibrationSetup struct {
+	RunID, File, SHA256 string
+	Electrical          *Electrical
+	Chemical            *ChemicalCalibration
+	Mixing              *Mixing
+	ContentsMass        float64 // g of liquid present (0 = unknown); mixing runs know it
+	UContentsMass       float64
+	UMass               float64 // balance standard uncertainty, g
+}
+
+// StoredInput is an input of a calibration's measurement model as written to
+// the calibration file (JSON cannot hold an infinite number of degrees of
+// freedom: DoF 0 there means infinite).
+type StoredInput struct {
+	Name   string  `json:"name"`
+	Symbol string  `json:"symbol"`
+	Unit   string  `json:"unit"`
+	Value  float64 `json:"value"`
+	U      float64 `json:"standard_uncertainty"`
+	DoF    float64 `json:"dof,omitempty"`
+	Dist   string  `json:"distribution"`
+}
+
+// StoredCorrelation is a correlation coefficient between two stored inputs.
+type StoredCorrelation struct {
+	A, B string  `json:"a,omitempty"`
+	R    float64 `json:"r"`
+}
+
+// CalibrationRun is one reduced calibration log.
+type CalibrationRun struct {
+	RunID              string              `json:"run_id"`
+	File               string              `json:"file"`
+	SHA256             string              `json:"sha256"`
+	Points             int                 `json:"points"`
+	Method             string              `json:"calibration_method"`
+	Variant            string              `json:"variant"`
+	CorrectionMethod   string              `json:"method"`
+	MixTime            float64             `json:"mix_time_s"`
+	DeltaT             float64             `json:"delta_t_k"`
+	UDeltaT            float64             `json:"u_delta_t_k"`
+	MeanTemperature    float64             `json:"mean_temperature_k"`
+	Heat               float64             `json:"heat_j"`
+	UHeat              float64             `json:"u_heat_j"`
+	HeatCapacity       float64             `json:"heat_capacity_j_per_k"`
+	UHeatCapacity      float64             `json:"u_heat_capacity_j_per_k"`
+	Vessel             *float64            `json:"vessel_heat_capacity_j_per_k,omitempty"`
+	UVessel            *float64            `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
+	ContentsMass       float64             `json:"contents_mass_g,omitempty"`
+	StandardName       string              `json:"standard,omitempty"`
+	StandardSource     string              `json:"standard_source,omitempty"`
+	Inputs             []StoredInput       `json:"inputs"`
+	Correlations       []StoredCorrelation `json:"correlations,omitempty"`
+	Budget             *Budget             `json:"budget,omitempty"`
+	Checks             []Check             `json:"checks"`
+	Status             Status              `json:"status"`
+	Rise               *Rise               `json:"-"`
+}
+
+// Calibration is the calorimeter's heat capacity from one or more runs, as
+// written to and read from a calibration file.
+type Calibration struct {
+	Format             int              `json:"calred_calibration_format"`
+	Kind               string           `json:"kind"`
+	Method             string           `json:"calibration_method"`
+	HeatCapacity       float64          `json:"heat_capacity_j_per_k"`
+	UHeatCapacity      float64          `json:"u_heat_capacity_j_per_k"`
+	DoF                float64          `json:"dof,omitempty"`
+	Vessel             *float64         `json:"vessel_heat_capacity_j_per_k,omitempty"`
+	UVessel            *float64         `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
+	ContentsMass       float64          `json:"contents_mass_g,omitempty"`
+	DeltaT             float64          `json:"delta_t_k"`
+	MeanTemperature    float64          `json:"mean_temperature_k"`
+	Scatter            *ScatterSummary  `json:"scatter,omitempty"`
+	Runs               []CalibrationRun `json:"runs"`
+	Checks             []Check          `json:"checks"`
+	Status             Status           `json:"status"`
+	Created            time.Time        `json:"created_utc"`
+	ProgramVersion     string           `json:"program_version,omitempty"`
+	SHA256             string           `json:"-"` // of the calibration file, when read from one
+}
+
+// ScatterSummary compares the spread between calibration runs with their
+// own uncertainties: the Birge ratio R_B = √(χ²/(n−1)), χ² = Σ(ε_i − ε̄)²/u_i².
+// When R_B > 1 the weighted mean's uncertainty is inflated by R_B (through an
+// additive between-run input of zero value) — common practice, see
+// Birge, Phys. Rev. 40 (1932) 207.
+type ScatterSummary struct {
+	Runs       int     `json:"runs"`
+	BirgeRatio float64 `json:"birge_ratio"`
+	SDJPerK    float64 `json:"sd_j_per_k"`
+	UExtra     float64 `json:"u_between_runs_j_per_k"`
+}
+
+// Model of a calibration run, rebuilt from its stored inputs by symbol.
+//
+//	electrical:  ε = P·t_h/ΔT, ε = V·I·t_h/ΔT or ε = Q_el/ΔT
+//	standard:    ε = −(m/M)·ΔH(T, m)/ΔT          (heat given to the vessel q = −n·ΔH = ε·ΔT)
+//	mixing:      C_v = k_cp·{m_h[h(T_h) − h(T_f)] − m_c[h(T_f) − h(T_c)]}/(T_f − T_c)   (DOMAIN §3)
+//	             ε = C_v + k_cp·(m_c + m_h)·c_p(T_f)
+//	vessel part: C_v = ε − k_cp·m_w·c_p(T_cal)   when the contents mass m_w is known
+//
+// with h the specific enthalpy of water and c_p its specific heat at 0.1 MPa
+// (IAPWS-95 fit, DOMAIN §4) and k_cp = 1 ± u a common scale on that fit.
+type calRunModel struct {
+	eps, vessel func(x []float64) float64
+}
+
+// build adds the run's inputs to c and returns its model. offsetless: the
+// closures index into the full input vector of the chain.
+func (r *CalibrationRun) build(c *chain, kcp int) (calRunModel, error) {
+	idx := map[string]int{}
+	for _, s := range r.Inputs {
+		if s.Symbol == "k_cp" {
+			idx["k_cp"] = kcp
+			continue
+		}
+		in := Input{Name: s.Name, Symbol: s.Symbol, Unit: s.Unit, Value: s.Value, U: s.U, DoF: s.DoF, Dist: distFromName(s.Dist)}
+		if in.DoF <= 0 {
+			in.DoF = math.Inf(1)
+		}
+		idx[s.Symbol] = c.add(in)
+	}
+	if _, ok := idx["k_cp"]; !ok {
+		idx["k_cp"] = kcp
+	}
+	for _, p := range r.Correlations {
+		i, ok1 := idx[p.A]
+		j, ok2 := idx[p.B]
+		if ok1 && ok2 {
+			c.correlate(i, j, p.R)
+		}
+	}
+	need := func(syms ...string) error {
+		for _, s := range syms {
+			if _, ok := idx[s]; !ok {
+				return fmt.Errorf("calibration run %s: model input %q missing", r.RunID, s)
+			}
+		}
+		return nil
+	}
+	var m calRunModel
+	tcal := r.MeanTemperature
+	switch r.Method {
+	case MethodElectrical:
+		var q func(x []float64) float64
+		switch r.Variant {
+		case "power-time":
+			if err := need("P", "t_h", "ΔT_cal"); err != nil {
+				return m, err
+			}
+			p, t := idx["P"], idx["t_h"]
+			q = func(x []float64) float64 { return x[p] * x[t] }
+		case "voltage-current":
+			if err := need("V", "I", "t_h", "ΔT_cal"); err != nil {
+				return m, err
+			}
+			v, i, t := idx["V"], idx["I"], idx["t_h"]
+			q = func(x []float64) float64 { return x[v] * x[i] * x[t] }
+		case "power-column":
+			if err := need("Q_el", "ΔT_cal"); err != nil {
+				return m, err
+			}
+			qi := idx["Q_el"]
+			q = func(x []float64) float64 { return x[qi] }
+		default:
+			return m, fmt.Errorf("calibration run %s: unknown electrical variant %q", r.RunID, r.Variant)
+		}
+		dt := idx["ΔT_cal"]
+		m.eps = func(x []float64) float64 { return q(x) / x[dt] }
+	case MethodStandard:
+		if r.Variant == "amount" {
+			if err := need("n_std", "ΔH_std", "ΔT_cal"); err != nil {
+				return m, err
+			}
+			n, dh, dt := idx["n_std"], idx["ΔH_std"], idx["ΔT_cal"]
+			m.eps = func(x []float64) float64 { return -x[n] * x[dh] / x[dt] }
+			break
+		}
+		if err := need("m_std", "M_std", "ΔH_std", "ΔT_cal"); err != nil {
+			return m, err
+		}
+		ms, mm, dh, dt := idx["m_std"], idx["M_std"], idx["ΔH_std"], idx["ΔT_cal"]
+		m.eps = func(x []float64) float64 { return -(x[ms] / x[mm]) * x[dh] / x[dt] }
+	case MethodMixing:
+		if err := need("m_c", "m_h", "T_h", "T_c", "T_f"); err != nil {
+			return m, err
+		}
+		mc, mh, th, tc, tf, k := idx["m_c"], idx["m_h"], idx["T_h"], idx["T_c"], idx["T_f"], idx["k_cp"]
+		m.vessel = func(x []float64) float64 {
+			return x[k] * (x[mh]*WaterEnthalpyChange(x[tf], x[th]) - x[mc]*WaterEnthalpyChange(x[tc], x[tf])) / (x[tf] - x[tc])
+		}
+		m.eps = func(x []float64) float64 {
+			return m.vessel(x) + x[k]*(x[mc]+x[mh])*WaterCp(x[tf])
+		}
+		return m, nil
+	default:
+		return m, fmt.Errorf("calibration run %s: unknown calibration method %q", r.RunID, r.Method)
+	}
+	if w, ok := idx["m_w"]; ok {
+		eps, k, cp := m.eps, idx["k_cp"], WaterCp(tcal)
+		m.vessel = func(x []float64) float64 { return eps(x) - x[k]*x[w]*cp }
+	}
+	return m, nil
+}
+
+func distFromName(s string) Distribution {
+	switch s {
+	case "rectangular":
+		return Rectangular
+	case "triangular":
+		return Triangular
+	case "student-t":
+		return StudentT
+	}
+	return Normal
+}
+
+func distName(d Distribution) string {
+	switch d {
+	case Rectangular:
+		return "rectangular"
+	case Triangular:
+		return "triangular"
+	case StudentT:
+		return "student-t"
+	}
+	return "normal"
+}
+
+func storeInput(in Input) StoredInput {
+	s := StoredInput{Name: in.Name, Symbol: in.Symbol, Unit: in.Unit, Value: in.Value, U: in.U, Dist: distName(in.Dist)}
+	if !math.IsInf(in.DoF, 1) && in.DoF > 0 {
+		s.DoF = in.DoF
+	}
+	return s
+}
+
+// CalibrateRun reduces one calibration run whose corrected temperature
+// change has been found (rise) to the calorimeter's heat capacity.
+func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
+	if rise == nil {
+		return nil, errors.New("calibration: no temperature analysis")
+	}
+	r := &CalibrationRun{RunID: s.RunID, File: s.File, SHA256: s.SHA256, Points: rise.Points,
+		CorrectionMethod: rise.Method, MixTime: rise.MixTime, DeltaT: rise.DeltaT, UDeltaT: rise.UDeltaT,
+		MeanTemperature: rise.MeanTemperature, Rise: rise}
+	r.Checks = append(r.Checks, rise.Checks...)
+	var ins []Input
+	dT := riseInput("corrected temperature change (calibration)", "ΔT_cal", rise)
+	kinds := 0
+	if s.Electrical != nil {
+		kinds++
+	}
+	if s.Chemical != nil {
+		kinds++
+	}
+	if s.Mixing != nil {
+		kinds++
+	}
+	if kinds != 1 {
+		return nil, fmt.Errorf("calibration %s: give exactly one kind of calibration (electrical, standard or mixing), got %d", s.RunID, kinds)
+	}
+	switch {
+	case s.Electrical != nil:
+		e := s.Electrical
+		r.Method = MethodElectrical
+		switch {
+		case e.Energy > 0:
+			r.Variant = "power-column"
+			ins = append(ins, Input{Name: "electrical energy (heater column)", Symbol: "Q_el", Unit: "J", Value: e.Energy, U: e.UEnergy, Dist: Normal})
+		case e.Power > 0 && e.Time > 0:
+			r.Variant = "power-time"
+			ins = append(ins,
+				Input{Name: "heater power", Symbol: "P", Unit: "W", Value: e.Power, U: e.UPower, Dist: Normal},
+				Input{Name: "heating time", Symbol: "t_h", Unit: "s", Value: e.Time, U: e.UTime, Dist: Normal})
+		case e.Voltage > 0 && e.Current > 0 && e.Time > 0:
+			r.Variant = "voltage-current"
+			ins = append(ins,
+				Input{Name: "heater voltage", Symbol: "V", Unit: "V", Value: e.Voltage, U: e.UVoltage, Dist: Normal},
+				Input{Name: "heater current", Symbol: "I", Unit: "A", Value: e.Current, U: e.UCurrent, Dist: Normal},
+				Input{Name: "heating time", Symbol: "t_h", Unit: "s", Value: e.Time, U: e.UTime, Dist: Normal})
+		default:
+			return nil, fmt.Errorf("electrical calibration %s: give heater power and time, voltage, current and time, or a heater-power column", s.RunID)
+		}
+		ins = append(ins, dT)
+		if rise.DeltaT <= 0 {
+			r.Checks = append(r.Checks, Check{Name: "calibration-sign", Status: Fail,
+				Detail: fmt.Sprintf("a heater must warm the vessel, but ΔT = %.4g K", rise.DeltaT)})
+		}
+	case s.Chemical != nil:
+		ch := s.Chemical
+		r.Method = MethodStandard
+		r.StandardName, r.StandardSource = ch.Standard.Name, ch.Standard.Source
+		M := ch.Standard.MolarMass
+		weighed := ch.Standard.Weighed || ch.Amount == 0
+		if weighed {
+			if err := chainNeedPositive("standard mass", ch.Mass, "g"); err != nil {
+				return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+			}
+		} else if err := chainNeedPositive("amount of the limiting reagent", ch.Amount, "mol"); err != nil {
+			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+		}
+		if !ch.Standard.Weighed && ch.Amount == 0 {
+			return nil, fmt.Errorf("calibration %s: standard %s is not weighed: give the amount of the limiting reagent (--amount, mol)", s.RunID, ch.Standard.Name)
+		}
+		molality := 0.0
+		if ch.SolventMass > 0 && weighed {
+			molality = (ch.Mass / M) / (ch.SolventMass / 1000)
+		}
+		h, uh, err := ch.Standard.EnthalpyAt(rise.MeanTemperature, molality)
+		if err != nil {
+			return nil, fmt.Errorf("calibration %s: standard %s: %w", s.RunID, ch.Standard.Name, err)
+		}
+		uM := 0.0
+		if ch.Standard.Formula != "" {
+			if _, u, err := MolarMass(ch.Standard.Formula); err == nil {
+				uM = u
+			}
+		}
+		um := ch.UMass
+		if um == 0 {
+			um = s.UMass
+		}
+		if weighed {
+			r.Variant = "weighed"
+			ins = append(ins,
+				massInput("standard mass", "m_std", ch.Mass, um),
+				Input{Name: "molar mass of the standard", Symbol: "M_std", Unit: "g/mol", Value: M, U: uM, Dist: Rectangular})
+		} else {
+			r.Variant = "amount"
+			ins = append(ins, Input{Name: "amount of the limiting reagent", Symbol: "n_std", Unit: "mol", Value: ch.Amount, U: ch.UAmount, Dist: Normal})
+		}
+		ins = append(ins,
+			Input{Name: "certified enthalpy of the standard at the run's T and m", Symbol: "ΔH_std", Unit: "J/mol", Value: h, U: uh, Dist: Normal},
+			dT)
+		if h*rise.DeltaT > 0 {
+			r.Checks = append(r.Checks, Check{Name: "calibration-sign", Status: Fail,
+				Detail: fmt.Sprintf("standard %s has ΔH = %.4g kJ/mol, so ΔT should have the opposite sign, but ΔT = %.4g K", ch.Standard.Name, h/1000, rise.DeltaT)})
+		}
+	case s.Mixing != nil:
+		mx := s.Mixing
+		r.Method = MethodMixing
+		if err := chainNeedPositive("cold water mass", mx.ColdMass, "g"); err != nil {
+			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+		}
+		if err := chainNeedPositive("hot water mass", mx.HotMass, "g"); err != nil {
+			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+		}
+		if mx.HotTemperature <= rise.FinalTemperature {
+			return nil, fmt.Errorf("calibration %s: hot water at %.2f °C is not warmer than the final temperature %.2f °C",
+				s.RunID, mx.HotTemperature-273.15, rise.FinalTemperature-273.15)
+		}
+		for _, t := range []float64{mx.HotTemperature, rise.InitialTemperature, rise.FinalTemperature} {
+			if !WaterValid(t) {
+				return nil, fmt.Errorf("calibration %s: water at %.2f °C is outside the 0–60 °C range of the water properties", s.RunID, t-273.15)
+			}
+		}
+		uc, uh := mx.UColdMass, mx.UHotMass
+		if uc == 0 {
+			uc = s.UMass
+		}
+		if uh == 0 {
+			uh = s.UMass
+		}
+		ins = append(ins,
+			massInput("cold water mass", "m_c", mx.ColdMass, uc),
+			massInput("hot water mass", "m_h", mx.HotMass, uh),
+			Input{Name: "hot water temperature", Symbol: "T_h", Unit: "K", Value: mx.HotTemperature, U: mx.UHotTemperature, Dist: Normal},
+			Input{Name: "cold temperature at mixing (fore line)", Symbol: "T_c", Unit: "K", Value: rise.InitialTemperature, U: rise.UInitial, Dist: Normal},
+			Input{Name: "final temperature at mixing (after line)", Symbol: "T_f", Unit: "K", Value: rise.FinalTemperature, U: rise.UFinal, Dist: Normal},
+			cpScaleInput(rise.FinalTemperature))
+		r.ContentsMass = mx.ColdMass + mx.HotMass
+		if rise.CovInitialFinal != 0 {
+			r.Correlations = append(r.Correlations, StoredCorrelation{A: "T_c", B: "T_f", R: chainCorr(rise.UInitial, rise.UFinal, rise.CovInitialFinal)})
+		}
+	}
+	if s.ContentsMass > 0 && r.Method != MethodMixing {
+		r.ContentsMass = s.ContentsMass
+		uw := s.UContentsMass
+		if uw == 0 {
+			uw = s.UMass
+		}
+		ins = append(ins, massInput("liquid mass during calibration", "m_w", s.ContentsMass, uw), cpScaleInput(rise.MeanTemperature))
+	}
+	for _, in := range ins {
+		r.Inputs = append(r.Inputs, storeInput(in))
+	}
+	// Evaluate the run on its own.
+	var c chain
+	kcp := c.add(cpScaleInput(rise.MeanTemperature))
+	m, err := r.build(&c, kcp)
+	if err != nil {
+		return nil, err
+	}
+	b, err := Propagate(c.inputs, c.correlation(), m.eps, 0.95)
+	if err != nil {
+		return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+	}
+	r.Budget = b
+	r.HeatCapacity, r.UHeatCapacity = b.Value, b.U
+	r.Heat = r.HeatCapacity * r.DeltaT
+	r.UHeat = math.Abs(r.Heat) * math.Hypot(r.UHeatCapacity/r.HeatCapacity, rise.UDeltaT/rise.DeltaT)
+	if m.vessel != nil {
+		vb, err := Propagate(c.inputs, c.correlation(), m.vessel, 0.95)
+		if err != nil {
+			return nil, fmt.Errorf("calibration %s: vessel part: %w", s.RunID, err)
+		}
+		v, uv := vb.Value, vb.U
+		r.Vessel, r.UVessel = &v, &uv
+	}
+	r.Checks = append(r.Checks, calHeatCapacityChecks(r)...)
+	r.Status = Worst(r.Checks)
+	return r, nil
+}
+
+func calHeatCapacityChecks(r *CalibrationRun) []Check {
+	var out []Check
+	switch {
+	case !(r.HeatCapacity > 0):
+		out = append(out, Check{Name: "heat-capacity-positive", Status: Fail,
+			Detail: fmt.Sprintf("the heat capacity came out as %.4g J/K; a calorimeter's heat capacity is positive (check masses, temperatures and the sign of ΔT)", r.HeatCapacity)})
+	default:
+		out = append(out, Check{Name: "heat-capacity-positive", Status: Pass,
+			Detail: fmt.Sprintf("ε = %.5g J/K", r.HeatCapacity)})
+	}
+	if r.Vessel != nil && *r.Vessel < 0 {
+		out = append(out, Check{Name: "vessel-heat-capacity", Status: Warn,
+			Detail: fmt.Sprintf("the vessel's own heat capacity came out negative (%.3g J/K): heat lost while pouring, or wrong masses (DOMAIN: student values are sometimes negative)", *r.Vessel)})
+	}
+	return out
+}
+
+// Combine merges calibration runs into one calibration: the weighted mean
+// of the runs' heat capacities with weights 1/u_i², its uncertainty from the
+// whole chain of inputs, and the between-run scatter compared with the
+// runs' own uncertainties (ScatterSummary). The vessel part is combined the
+// same way when every run has one.
+func Combine(runs []*CalibrationRun, created time.Time, version string) (*Calibration, error) {
+	if len(runs) == 0 {
+		return nil, errors.New("calibration: no runs")
+	}
+	cal := &Calibration{Format: CalibrationFormat, Kind: "calibration", Created: created.UTC(), ProgramVersion: version}
+	methods := map[string]bool{}
+	for _, r := range runs {
+		methods[r.Method] = true
+		cal.Runs = append(cal.Runs, *r)
+	}
+	if len(methods) == 1 {
+		cal.Method = runs[0].Method
+	} else {
+		ms := make([]string, 0, len(methods))
+		for m := range methods {
+			ms = append(ms, m)
+		}
+		sort.Strings(ms)
+		cal.Method = strings.Join(ms, "+")
+	}
+	if err := cal.evaluate(); err != nil {
+		return nil, err
+	}
+	return cal, nil
+}
+
+// evaluate computes the combined heat capacity from the stored runs (also
+// used after reading a file, so that a file's numbers are re-derived from
+// its inputs and checked).
+func (cal *Calibration) evaluate() error {
+	var c chain
+	eps, vessel, err := cal.model(&c)
+	if err != nil {
+		return err
+	}
+	b, err := Propagate(c.inputs, c.correlation(), eps, 0.95)
+	if err != nil {
+		return fmt.Errorf("calibration: %w", err)
+	}
+	cal.HeatCapacity, cal.UHeatCapacity, cal.DoF = b.Value, b.U, finiteDoF(b.DoF)
+	if vessel != nil {
+		vb, err := Propagate(c.inputs, c.correlation(), vessel, 0.95)
+		if err != nil {
+			return fmt.Errorf("calibration: vessel part: %w", err)
+		}
+		v, uv := vb.Value, vb.U
+		cal.Vessel, cal.UVessel = &v, &uv
+	}
+	var sumT, sumTemp, sumM float64
+	cal.Checks = cal.Checks[:0]
+	for i := range cal.Runs {
+		r := &cal.Runs[i]
+		sumT += r.DeltaT
+		sumTemp += r.MeanTemperature
+		sumM += r.ContentsMass
+		for _, ch := range r.Checks {
+			if ch.Status != Pass {
+				ch.Name = r.RunID + ": " + ch.Name
+				cal.Checks = append(cal.Checks, ch)
+			}
+		}
+	}
+	n := float64(len(cal.Runs))
+	cal.DeltaT, cal.MeanTemperature = sumT/n, sumTemp/n
+	cal.ContentsMass = sumM / n
+	if cal.Scatter != nil {
+		st := Pass
+		detail := fmt.Sprintf("%d runs: Birge ratio %.2f (scatter between runs consistent with their uncertainties)", cal.Scatter.Runs, cal.Scatter.BirgeRatio)
+		if cal.Scatter.BirgeRatio > 2 {
+			st = Warn
+			detail = fmt.Sprintf("%d runs scatter by %.3g J/K, %.1f times more than their uncertainties explain; u(ε) inflated", cal.Scatter.Runs, cal.Scatter.SDJPerK, cal.Scatter.BirgeRatio)
+		}
+		cal.Checks = append(cal.Checks, Check{Name: "calibration-scatter", Status: st, Detail: detail})
+	}
+	if len(cal.Runs) > 1 && cal.ContentsMass > 0 {
+		for _, r := range cal.Runs {
+			if math.Abs(r.ContentsMass-cal.ContentsMass) > 0.02*cal.ContentsMass {
+				cal.Checks = append(cal.Checks, Check{Name: "calibration-fills", Status: Warn,
+					Detail: fmt.Sprintf("run %s held %.1f g of liquid, the others average %.1f g", r.RunID, r.ContentsMass, cal.ContentsMass)})
+				break
+			}
+		}
+	}
+	if !(cal.HeatCapacity > 0) {
+		cal.Checks = append(cal.Checks, Check{Name: "heat-capacity-positive", Status: Fail,
+			Detail: fmt.Sprintf("the combined heat capacity is %.4g J/K; it must be positive", cal.HeatCapacity)})
+	}
+	if len(cal.Checks) == 0 {
+		cal.Checks = append(cal.Checks, Check{Name: "calibration-runs", Status: Pass, Detail: fmt.Sprintf("%d run(s), all checks passed", len(cal.Runs))})
+	}
+	cal.Status = Worst(cal.Checks)
+	return nil
+}
+
+func finiteDoF(v float64) float64 {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0
+	}
+	return v
+}
+
+// model adds every run's inputs to c and returns the combined heat capacity
+// ε(x) = Σ w_i ε_i(x)/Σ w_i (+ a between-run term when the runs scatter more
+// than their uncertainties say) and the vessel part when every run has one.
+func (cal *Calibration) model(c *chain) (eps, vessel func(x []float64) float64, err error) {
+	if len(cal.Runs) == 0 {
+		return nil, nil, errors.New("calibration has no runs")
+	}
+	t := cal.Runs[0].MeanTemperature
+	kcp := c.add(cpScaleInput(t))
+	models := make([]calRunModel, len(cal.Runs))
+	w := make([]float64, len(cal.Runs))
+	var sw float64
+	allVessel := true
+	for i := range cal.Runs {
+		r := &cal.Runs[i]
+		m, err := r.build(c, kcp)
+		if err != nil {
+			return nil, nil, err
+		}
+		models[i] = m
+		u := r.UHeatCapacity
+		if !(u > 0) {
+			u = 1
+		}
+		w[i] = 1 / (u * u)
+		sw += w[i]
+		if m.vessel == nil {
+			allVessel = false
+		}
+	}
+	for i := range w {
+		w[i] /= sw
+	}
+	extra := -1
+	if n := len(cal.Runs); n > 1 {
+		var mean, chi2, sd float64
+		for i, r := range cal.Runs {
+			mean += w[i] * r.HeatCapacity
+		}
+		for _, r := range cal.Runs {
+			d := r.HeatCapacity - mean
+			chi2 += d * d / (r.UHeatCapacity * r.UHeatCapacity)
+			sd += d * d
+		}
+		sd = math.Sqrt(sd / float64(n-1))
+		rb := math.Sqrt(chi2 / float64(n-1))
+		s := &ScatterSummary{Runs: n, BirgeRatio: rb, SDJPerK: sd}
+		if rb > 1 {
+			uMean := 1 / math.Sqrt(sw)
+			s.UExtra = uMean * math.Sqrt(rb*rb-1)
+			extra = c.add(Input{Name: "scatter between calibration runs", Symbol: "δε_runs", Unit: "J/K", Value: 0, U: s.UExtra, DoF: float64(n - 1), Dist: Normal})
+		}
+		cal.Scatter = s
+	}
+	eps = func(x []float64) float64 {
+		var e float64
+		for i, m := range models {
+			e += w[i] * m.eps(x)
+		}
+		if extra >= 0 {
+			e += x[extra]
+		}
+		return e
+	}
+	if allVessel {
+		vessel = func(x []float64) float64 {
+			var v float64
+			for i, m := range models {
+				v += w[i] * m.vessel(x)
+			}
+			if extra >= 0 {
+				v += x[extra]
+			}
+			return v
+		}
+	}
+	return eps, vessel, nil
+}
+
+// WriteCalibration writes the calibration file: versioned, indented JSON.
+func WriteCalibration(w io.Writer, cal *Calibration) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(cal)
+}
+
+// ReadCalibration reads a calibration file written by WriteCalibration and
+// re-derives its heat capacity from the stored inputs. A corrupt file, a
+// newer format, or numbers that do not follow from the inputs are errors.
+func ReadCalibration(r io.Reader) (*Calibration, error) {
+	dec := json.NewDecoder(r)
+	var cal Calibration
+	if err := dec.Decode(&cal); err != nil {
+		return nil, fmt.Errorf("calibration file is not valid JSON: %w", err)
+	}
+	switch {
+	case cal.Format == 0 || cal.Kind != "calibration":
+		return nil, errors.New("not a calred calibration file (no calred_calibration_format, or kind is not \"calibration\")")
+	case cal.Format > CalibrationFormat:
+		return nil, fmt.Errorf("calibration file format %d is newer than this program reads (%d): use a newer calred", cal.Format, CalibrationFormat)
+	case len(cal.Runs) == 0:
+		return nil, errors.New("calibration file has no runs")
+	}
+	stated, statedU := cal.HeatCapacity, cal.UHeatCapacity
+	if err := cal.evaluate(); err != nil {
+		return nil, err
+	}
+	if math.Abs(cal.HeatCapacity-stated) > 1e-6*math.Abs(stated)+1e-9 || math.Abs(cal.UHeatCapacity-statedU) > 1e-3*statedU+1e-9 {
+		return nil, fmt.Errorf("calibration file states ε = %g ± %g J/K but its inputs give %g ± %g J/K: the file was edited or is corrupt",
+			stated, statedU, cal.HeatCapacity, cal.UHeatCapacity)
+	}
+	return &cal, nil
+}

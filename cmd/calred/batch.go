@@ -1,0 +1,516 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"github.com/vbauerster/mpb/v8"
+	"github.com/vbauerster/mpb/v8/decor"
+
+	"calred/calorimeter"
+	"calred/calorimeter/ledger"
+	"calred/calorimeter/report"
+	"calred/units"
+)
+
+const batchAbout = `Reduce every row of a manifest CSV: calibrations first, then the sample runs that use them.
+Manifest columns are the flag names of reduce and calibrate with '-' written '_' (sample_mass,
+formula, solvent_mass, heat_capacity, heater_power, cold_mass …), plus
+  log       the log file, relative to the manifest
+  kind      sample (default) or calibration
+  cal       run_id of a calibration row (several joined with '+' are combined), or a calibration file
+  accepted  reference value for grading, e.g. 34.89±0.10 kJ/mol
+Each sample with an accepted value is graded: error %, z (with --sigma-pt), ζ, En, a verdict
+(ISO 13528 limits) and feedback naming the classic mistakes. A run that cannot be reduced is
+reported and the others go on (exit 3); a failed check gives exit 4.`
+
+func runBatch(a *app, args []string) error {
+	fs := newFlags(a, "batch", "MANIFEST.csv [flags]", batchAbout)
+	output := fs.StringP("output", "o", "", "write the results CSV to FILE")
+	reportFile := fs.String("report", "", "write one HTML report of all runs to FILE.html")
+	title := fs.String("title", "", "title of the HTML report (default: the manifest's name)")
+	sigmaPT := fs.String("sigma-pt", "", "standard deviation for proficiency assessment for z scores, kJ/mol or % of the accepted value (e.g. 5%)")
+	ledgerFile := fs.String("ledger", "", "append every run to this ledger CSV")
+	lf := addOutFlags(newFlags(a, "batch-limits", "", ""), false).limits
+	fs.StringVar(lf.minFore, "min-fore", "", "shortest fore period accepted, s (default 120 s)")
+	fs.StringVar(lf.minAfter, "min-after", "", "shortest after period accepted, s (default 120 s)")
+	fs.IntVar(lf.minPoints, "min-points", 0, "fewest readings in a fore or after period (default 20)")
+	fs.Float64Var(lf.spikeZ, "spike-z", 0, "robust z beyond which a reading is a spike (default 6)")
+	quiet := fs.Bool("quiet", false, "print only the summary table")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return withHint(usagef("batch: want exactly one MANIFEST.csv, got %d arguments", fs.NArg()), "calred batch class.csv -o results.csv --report report.html")
+	}
+	sigma, sigmaRel, err := parseSigmaPT(*sigmaPT)
+	if err != nil {
+		return err
+	}
+	mpath := fs.Arg(0)
+	rows, err := readManifest(mpath)
+	if err != nil {
+		return err
+	}
+	dir := filepath.Dir(mpath)
+	mname := filepath.Base(mpath)
+
+	var bar *mpb.Bar
+	var progress *mpb.Progress
+	if f, ok := a.stderr.(*os.File); ok && isTerminal(f) && !*quiet {
+		progress = mpb.New(mpb.WithOutput(f), mpb.WithWidth(40))
+		bar = progress.AddBar(int64(len(rows)), mpb.PrependDecorators(decor.Name("reducing "), decor.CountersNoUnit("%d/%d")))
+	}
+	done := func() {
+		if bar != nil {
+			bar.Increment()
+		}
+	}
+
+	// Calibrations first, in manifest order, then samples.
+	order := make([]int, 0, len(rows))
+	for i, r := range rows {
+		if r.kind == "calibration" {
+			order = append(order, i)
+		}
+	}
+	for i, r := range rows {
+		if r.kind != "calibration" {
+			order = append(order, i)
+		}
+	}
+	calRuns := map[string]*calorimeter.CalibrationRun{}
+	results := make([]*batchResult, len(rows))
+	var ledgerRows []ledger.Row
+	for _, i := range order {
+		mr := rows[i]
+		res := &batchResult{row: mr, runID: mr.spec.text("run-id")}
+		results[i] = res
+		logPath := filepath.Join(dir, mr.log)
+		if res.runID == "" {
+			res.runID = strings.TrimSuffix(filepath.Base(mr.log), filepath.Ext(mr.log))
+		}
+		switch mr.kind {
+		case "calibration":
+			cr, err := calibrateOne(a, logPath, mr.spec, lf)
+			if err != nil {
+				res.err = err
+				break
+			}
+			res.cal, res.runID = cr, cr.in.runID
+			calRuns[cr.in.runID] = cr.run
+			ledgerRows = append(ledgerRows, cr.record())
+		default:
+			cals, err := batchCalibrations(mr, calRuns)
+			if err != nil {
+				res.err = err
+				break
+			}
+			sr, err := reduceSample(a, logPath, mr.spec, dir, cals, lf)
+			if err != nil {
+				res.err = err
+				break
+			}
+			res.sample, res.runID = sr, sr.in.runID
+			ledgerRows = append(ledgerRows, sr.record())
+		}
+		if res.err != nil {
+			a.warnf("%s:%d: %s: %v", mname, mr.line, res.runID, oneLine(res.err.Error()))
+		}
+		done()
+	}
+	if progress != nil {
+		progress.Wait()
+	}
+	gradeBatch(results, sigma, sigmaRel)
+
+	if *output != "" {
+		if err := writeAtomic(*output, func(w io.Writer) error { return writeResultsCSV(w, results) }); err != nil {
+			return err
+		}
+	}
+	if *reportFile != "" {
+		t := *title
+		if t == "" {
+			t = "calred report — " + mname
+		}
+		if err := writeAtomic(*reportFile, func(w io.Writer) error { return writeReport(w, t, mname, results) }); err != nil {
+			return err
+		}
+	}
+	if *ledgerFile != "" && len(ledgerRows) > 0 {
+		if err := appendLedger(*ledgerFile, ledgerRows...); err != nil {
+			return err
+		}
+	}
+	writeBatchSummary(a.stdout, results, *quiet)
+
+	var failed, broken int
+	for _, r := range results {
+		switch {
+		case r.err != nil:
+			broken++
+		case r.status() == calorimeter.Fail:
+			failed++
+		}
+	}
+	if broken > 0 {
+		return dataf("%s: %d of %d runs could not be reduced (the others are written)", mname, broken, len(results))
+	}
+	if failed > 0 {
+		return errCheckFailed
+	}
+	return nil
+}
+
+func isTerminal(f *os.File) bool {
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+// parseSigmaPT reads "0.8", "0.8 kJ/mol" or "5%".
+func parseSigmaPT(s string) (abs, rel float64, err error) {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return 0, 0, nil
+	}
+	if p, ok := strings.CutSuffix(s, "%"); ok {
+		v, err := units.ParseNumber(strings.TrimSpace(p))
+		if err != nil || !(v > 0) {
+			return 0, 0, usagef("flag --sigma-pt: %q is not a positive percentage", s)
+		}
+		return 0, v / 100, nil
+	}
+	q, err := units.Parse(s, units.MolarEnthalpy, "kJ/mol")
+	if err != nil || !(q.Value > 0) {
+		return 0, 0, usagef("flag --sigma-pt: %q is not a positive molar enthalpy (kJ/mol) or percentage", s)
+	}
+	return q.Value / 1000, 0, nil
+}
+
+type manifestRow struct {
+	line     int
+	log      string
+	kind     string
+	cal      string
+	accepted string
+	spec     *spec
+}
+
+// readManifest reads the manifest; an unknown column or a row without a log
+// is an error naming the manifest line.
+func readManifest(path string) ([]manifestRow, error) {
+	f, err := openInput(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	name := filepath.Base(path)
+	r := csv.NewReader(f)
+	r.FieldsPerRecord = -1
+	r.Comment = '#'
+	r.TrimLeadingSpace = true
+	header, err := r.Read()
+	if err != nil {
+		return nil, dataf("%s: no header line: %v", name, err)
+	}
+	cols := make([]string, len(header))
+	for i, h := range header {
+		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		key := strings.ReplaceAll(h, "_", "-")
+		switch key {
+		case "log", "kind", "cal", "accepted":
+		default:
+			if _, ok := fieldByName(key); !ok {
+				return nil, dataf("%s:1: unknown column %q (columns are flag names with '_' for '-', plus log, kind, cal, accepted)", name, h)
+			}
+		}
+		cols[i] = key
+	}
+	var rows []manifestRow
+	for {
+		rec, err := r.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		line, _ := r.FieldPos(0)
+		if err != nil {
+			return nil, dataf("%s: %v", name, err)
+		}
+		if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
+			continue
+		}
+		if len(rec) > len(cols) {
+			return nil, dataf("%s:%d: %d cells but the header has %d columns", name, line, len(rec), len(cols))
+		}
+		mr := manifestRow{line: line, kind: "sample", spec: newSpec()}
+		origin := fmt.Sprintf("%s:%d", name, line)
+		for i, v := range rec {
+			v = strings.TrimSpace(v)
+			if v == "" {
+				continue
+			}
+			switch cols[i] {
+			case "log":
+				mr.log = v
+			case "kind":
+				mr.kind = strings.ToLower(v)
+			case "cal":
+				mr.cal = v
+				mr.spec.set("cal", v, origin)
+			case "accepted":
+				mr.accepted = v
+			default:
+				mr.spec.set(cols[i], v, origin)
+			}
+		}
+		if mr.log == "" {
+			return nil, dataf("%s:%d: no log file given", name, line)
+		}
+		if mr.kind != "sample" && mr.kind != "calibration" {
+			return nil, dataf("%s:%d: kind %q is not sample or calibration", name, line, mr.kind)
+		}
+		rows = append(rows, mr)
+	}
+	if len(rows) == 0 {
+		return nil, dataf("%s: no runs listed", name)
+	}
+	return rows, nil
+}
+
+// batchCalibrations resolves a sample's cal cell: run ids of calibration
+// rows (joined with '+') become one combined calibration, held under the
+// cell's text; anything else is left for heatCapacityOf to read as a file.
+func batchCalibrations(mr manifestRow, calRuns map[string]*calorimeter.CalibrationRun) (map[string]*calorimeter.Calibration, error) {
+	if mr.cal == "" {
+		return nil, nil
+	}
+	ids := strings.Split(mr.cal, "+")
+	var runs []*calorimeter.CalibrationRun
+	for _, id := range ids {
+		id = strings.TrimSpace(id)
+		if r, ok := calRuns[id]; ok {
+			runs = append(runs, r)
+		} else if len(ids) > 1 {
+			return nil, dataf("manifest line %d: calibration run %q not found (or it could not be reduced)", mr.line, id)
+		}
+	}
+	if len(runs) == 0 {
+		if strings.HasSuffix(strings.ToLower(mr.cal), ".json") {
+			return nil, nil // a calibration file
+		}
+		return nil, dataf("manifest line %d: calibration %q is neither a calibration row's run_id nor a .json calibration file (or its run could not be reduced)", mr.line, mr.cal)
+	}
+	cal, err := calorimeter.Combine(runs, time.Now(), version)
+	if err != nil {
+		return nil, dataErr(err)
+	}
+	cal.SHA256 = mr.cal
+	return map[string]*calorimeter.Calibration{mr.cal: cal}, nil
+}
+
+type batchResult struct {
+	row    manifestRow
+	runID  string
+	sample *sampleResult
+	cal    *calibrationResult
+	err    error
+	grade  *calorimeter.Grade
+}
+
+func (r *batchResult) status() calorimeter.Status {
+	switch {
+	case r.err != nil:
+		return "error"
+	case r.sample != nil:
+		return r.sample.red.Status
+	case r.cal != nil:
+		return r.cal.run.Status
+	}
+	return "error"
+}
+
+func gradeBatch(results []*batchResult, sigma, sigmaRel float64) {
+	for _, r := range results {
+		if r.row.accepted == "" {
+			continue
+		}
+		q, err := units.Parse(r.row.accepted, units.MolarEnthalpy, "kJ/mol")
+		if err != nil {
+			g := calorimeter.Grade{Verdict: "not graded", Feedback: []string{fmt.Sprintf("accepted value: %v", err)}}
+			r.grade = &g
+			continue
+		}
+		acc, uacc := q.Value/1000, q.U/1000
+		if r.sample == nil {
+			g := calorimeter.Grade{Accepted: acc, UAccepted: uacc, ErrorPercent: math.NaN(), Z: math.NaN(), Zeta: math.NaN(), En: math.NaN(), Verdict: "not graded"}
+			if r.err != nil {
+				g.Feedback = []string{"the run could not be reduced: " + oneLine(r.err.Error())}
+			}
+			r.grade = &g
+			continue
+		}
+		red := r.sample.red
+		s := sigma
+		if sigmaRel > 0 {
+			s = sigmaRel * math.Abs(acc)
+		}
+		g := calorimeter.GradeResult(red.MolarEnthalpy, red.UMolarEnthalpy, red.Expanded, acc, uacc, s)
+		g.Feedback = calorimeter.Diagnose(red.MolarEnthalpy, acc, red.Sample.MolarMass, red.Checks)
+		r.grade = &g
+	}
+}
+
+var resultsHeader = []string{"run_id", "kind", "status", "log", "formula", "method", "delta_t_k", "u_delta_t_k",
+	"molar_enthalpy_kj_per_mol", "u_molar_enthalpy_kj_per_mol", "expanded_uncertainty_kj_per_mol", "coverage_factor",
+	"heat_capacity_j_per_k", "u_heat_capacity_j_per_k", "molality_mol_per_kg", "accepted_kj_per_mol",
+	"error_percent", "z_score", "zeta_score", "en_number", "verdict", "feedback"}
+
+func num(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+func writeResultsCSV(w io.Writer, results []*batchResult) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(resultsHeader); err != nil {
+		return err
+	}
+	for _, r := range results {
+		rec := make([]string, len(resultsHeader))
+		rec[0], rec[1], rec[2], rec[3] = r.runID, r.row.kind, string(r.status()), r.row.log
+		switch {
+		case r.sample != nil:
+			red := r.sample.red
+			rec[4], rec[5] = red.Sample.Formula, red.Rise.Method
+			rec[6], rec[7] = num(red.Rise.DeltaT), num(red.Rise.UDeltaT)
+			rec[8], rec[9], rec[10], rec[11] = num(red.MolarEnthalpy), num(red.UMolarEnthalpy), num(red.Expanded), num(red.CoverageFactor)
+			rec[12], rec[13], rec[14] = num(red.HeatCapacity), num(red.UHeatCapacity), num(red.Molality)
+		case r.cal != nil:
+			run := r.cal.run
+			rec[5], rec[6], rec[7] = run.CorrectionMethod, num(run.DeltaT), num(run.UDeltaT)
+			rec[12], rec[13] = num(run.HeatCapacity), num(run.UHeatCapacity)
+		}
+		var fb []string
+		if r.err != nil {
+			fb = append(fb, "not reduced: "+oneLine(r.err.Error()))
+		}
+		if g := r.grade; g != nil {
+			rec[15], rec[16], rec[17], rec[18], rec[19], rec[20] = num(g.Accepted), num(g.ErrorPercent), num(g.Z), num(g.Zeta), num(g.En), g.Verdict
+			fb = append(fb, g.Feedback...)
+		}
+		rec[21] = strings.Join(fb, " | ")
+		for i := range rec {
+			rec[i] = ledger.SafeCell(rec[i])
+		}
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func writeBatchSummary(w io.Writer, results []*batchResult, quiet bool) {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "run\tkind\tstatus\tresult\tgrade")
+	byFormula := map[string][]float64{}
+	for _, r := range results {
+		res, grade := "—", ""
+		switch {
+		case r.err != nil:
+			res = "not reduced"
+		case r.sample != nil:
+			red := r.sample.red
+			res = fmt.Sprintf("ΔsolH = %s", units.Format(red.MolarEnthalpy, red.Expanded, "kJ/mol"))
+			if red.Sample.Formula != "" {
+				byFormula[red.Sample.Formula] = append(byFormula[red.Sample.Formula], red.MolarEnthalpy)
+			}
+		case r.cal != nil:
+			res = fmt.Sprintf("ε = %s", units.Format(r.cal.run.HeatCapacity, r.cal.run.UHeatCapacity, "J/K"))
+		}
+		if g := r.grade; g != nil {
+			grade = g.Verdict
+			if !math.IsNaN(g.ErrorPercent) {
+				grade = fmt.Sprintf("%s (%+.1f %%, En %.2f)", g.Verdict, g.ErrorPercent, g.En)
+			}
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r.runID, r.row.kind, r.status(), res, grade)
+	}
+	tw.Flush()
+	formulas := make([]string, 0, len(byFormula))
+	for f := range byFormula {
+		formulas = append(formulas, f)
+	}
+	sort.Strings(formulas)
+	for _, f := range formulas {
+		if c, err := calorimeter.AlgorithmA(byFormula[f]); err == nil {
+			fmt.Fprintf(w, "\n%s: robust class mean %.3f kJ/mol, s* = %.3f kJ/mol, u(x*) = %.3f kJ/mol over %d runs (ISO 13528 Algorithm A)\n",
+				f, c.Mean, c.SD, c.U, c.N)
+		}
+	}
+	if quiet {
+		return
+	}
+	for _, r := range results {
+		if r.grade != nil && len(r.grade.Feedback) > 0 {
+			fmt.Fprintf(w, "\n%s:\n", r.runID)
+			for _, fb := range r.grade.Feedback {
+				fmt.Fprintf(w, "  - %s\n", fb)
+			}
+		}
+	}
+}
+
+// writeReport renders the HTML report with one thermogram per run.
+func writeReport(w io.Writer, title, manifest string, results []*batchResult) error {
+	rep := report.Report{Title: title, Manifest: manifest, Generated: time.Now().UTC(), Version: version}
+	for _, r := range results {
+		e := report.Entry{RunID: r.runID, Kind: r.row.kind, Status: string(r.status()), Log: r.row.log}
+		var th *thermogramData
+		switch {
+		case r.err != nil:
+			e.Error = oneLine(r.err.Error())
+		case r.sample != nil:
+			red := r.sample.red
+			e.Result = "ΔsolH = " + units.Format(red.MolarEnthalpy, red.Expanded, "kJ/mol")
+			e.Detail = fmt.Sprintf("ΔT = %s (%s); ε = %s; %.4g g %s", units.Format(red.Rise.DeltaT, red.Rise.UDeltaT, "K"), red.Rise.Method,
+				units.Format(red.HeatCapacity, red.UHeatCapacity, "J/K"), red.Sample.Mass, red.Sample.Formula)
+			e.Checks = red.Checks
+			th = &thermogramData{r.sample.plotData()}
+			if c := calorimeter.Caution(red.Sample.Formula); c != "" {
+				e.Caution = c
+			}
+		case r.cal != nil:
+			run := r.cal.run
+			e.Result = "ε = " + units.Format(run.HeatCapacity, run.UHeatCapacity, "J/K")
+			e.Detail = fmt.Sprintf("ΔT = %s (%s), %s calibration", units.Format(run.DeltaT, run.UDeltaT, "K"), run.CorrectionMethod, run.Method)
+			e.Checks = run.Checks
+			th = &thermogramData{thermogram(r.runID, r.cal.in.log.Time, r.cal.in.log.Temperature, run.Rise)}
+		}
+		if g := r.grade; g != nil {
+			e.Grade = g
+		}
+		if th != nil {
+			var buf bytes.Buffer
+			if err := plotThermogram(&buf, "svg", th.Thermogram); err == nil {
+				e.SVG = buf.String()
+			}
+		}
+		rep.Entries = append(rep.Entries, e)
+	}
+	return report.Write(w, rep)
+}

@@ -1,0 +1,363 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"calred/calorimeter"
+	"calred/calorimeter/ledger"
+	"calred/units"
+)
+
+const calibrateAbout = `Reduce calibration runs to the calorimeter's heat capacity ε (J/K) with its uncertainty:
+  electrical   --heater-power and --heater-time, or --heater-voltage, --heater-current and
+               --heater-time, or a heater-power column in the log (integrated over time)
+  standard     --standard NAME with --sample-mass (and --solvent-mass for the molality), or
+               --reference-enthalpy VALUE±u with --formula and --sample-mass
+  mixing       --cold-mass, --hot-mass and --hot-temperature (cold and final temperatures
+               come from the drift lines of the log)
+--contents-mass splits off the vessel's own heat capacity so it can be reused with other
+fills. Several LOGs are combined as a weighted mean; -o writes the calibration file that
+"calred reduce --cal FILE" reads.
+
+Caution: heaters and mains-powered supplies need your lab's electrical safety rules; hot
+water scalds. Follow your lab's local rules and licensed practice.`
+
+func runCalibrate(a *app, args []string) error {
+	fs := newFlags(a, "calibrate", "LOG... [flags]", calibrateAbout)
+	addFieldFlags(fs, 'c')
+	output := fs.StringP("output", "o", "", "write the calibration file (JSON) to FILE")
+	out := addOutFlags(fs, false)
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() == 0 {
+		return withHint(usagef("calibrate: no LOG given"), "calred calibrate heater1.csv --heater-power 1.000W --heater-time 300s -o cal.json")
+	}
+	flags := newSpec()
+	flags.fromFlags(fs)
+	var runs []*calibrationResult
+	for _, path := range fs.Args() {
+		cr, err := calibrateOne(a, path, flags, out.limits)
+		if err != nil {
+			return err
+		}
+		runs = append(runs, cr)
+	}
+	crs := make([]*calorimeter.CalibrationRun, len(runs))
+	for i, r := range runs {
+		crs[i] = r.run
+	}
+	cal, err := calorimeter.Combine(crs, time.Now(), version)
+	if err != nil {
+		return dataErr(err)
+	}
+	if *output != "" {
+		if err := writeAtomic(*output, func(w io.Writer) error { return calorimeter.WriteCalibration(w, cal) }); err != nil {
+			return err
+		}
+	}
+	if *out.plot != "" {
+		for _, r := range runs {
+			name := *out.plot
+			if len(runs) > 1 {
+				ext := filepath.Ext(name)
+				name = strings.TrimSuffix(name, ext) + "-" + r.in.runID + ext
+			}
+			th := thermogram(fmt.Sprintf("%s — ε = %.1f ± %.1f J/K", r.in.runID, r.run.HeatCapacity, r.run.UHeatCapacity),
+				r.in.log.Time, r.in.log.Temperature, r.run.Rise)
+			if err := writePlot(name, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
+				return err
+			}
+		}
+	}
+	if *out.ledger != "" {
+		rows := make([]ledger.Row, len(runs))
+		for i, r := range runs {
+			rows[i] = r.record()
+		}
+		if len(rows) > 0 {
+			rows[0].Supersedes = *out.supersede
+		}
+		if err := appendLedger(*out.ledger, rows...); err != nil {
+			return err
+		}
+	} else if *out.supersede != "" {
+		return usagef("--supersede needs --ledger: it names the ledger row this result replaces")
+	}
+	if *out.json {
+		if err := writeJSON(a.stdout, calibrationJSON(cal)); err != nil {
+			return err
+		}
+	} else if err := writeCalibrationText(a.stdout, cal, runs); err != nil {
+		return err
+	}
+	if cal.Status == calorimeter.Fail {
+		return errCheckFailed
+	}
+	return nil
+}
+
+type calibrationResult struct {
+	in  *runInput
+	run *calorimeter.CalibrationRun
+}
+
+func calibrateOne(a *app, path string, over *spec, lf limitFlags) (*calibrationResult, error) {
+	ri, err := loadRun(a, path, over)
+	if err != nil {
+		return nil, err
+	}
+	setup, err := calibrationSetup(ri)
+	if err != nil {
+		return nil, err
+	}
+	rise, err := analyse(ri, lf)
+	if err != nil {
+		return nil, err
+	}
+	run, err := calorimeter.CalibrateRun(rise, setup)
+	if err != nil {
+		return nil, dataf("%s: %w", ri.name, err)
+	}
+	return &calibrationResult{in: ri, run: run}, nil
+}
+
+// calibrationSetup reads the kind of calibration from a run's description.
+func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
+	s := ri.spec
+	st := calorimeter.CalibrationSetup{RunID: ri.runID, File: ri.name, SHA256: ri.sha256}
+	um, err := uMass(s)
+	if err != nil {
+		return st, err
+	}
+	st.UMass = um
+	q := func(name string) (units.Quantity, bool, error) { return s.quantity(name) }
+	get := func(names ...string) (map[string]units.Quantity, error) {
+		m := map[string]units.Quantity{}
+		for _, n := range names {
+			v, ok, err := q(n)
+			if err != nil {
+				return nil, err
+			}
+			if ok {
+				m[n] = v
+			}
+		}
+		return m, nil
+	}
+	v, err := get("heater-power", "heater-time", "heater-voltage", "heater-current", "sample-mass", "solvent-mass",
+		"reference-enthalpy", "amount", "cold-mass", "hot-mass", "hot-temperature", "contents-mass")
+	if err != nil {
+		return st, err
+	}
+	has := func(n string) bool { _, ok := v[n]; return ok }
+	kinds := []string{}
+	switch {
+	case has("heater-power") || has("heater-voltage") || has("heater-current") || has("heater-time"):
+		kinds = append(kinds, "electrical")
+		e := &calorimeter.Electrical{}
+		t, okT := v["heater-time"]
+		switch {
+		case has("heater-power") && okT:
+			e.Power, e.UPower, e.Time, e.UTime = v["heater-power"].Value, v["heater-power"].U, t.Value, t.U
+		case has("heater-voltage") && has("heater-current") && okT:
+			e.Voltage, e.UVoltage = v["heater-voltage"].Value, v["heater-voltage"].U
+			e.Current, e.UCurrent = v["heater-current"].Value, v["heater-current"].U
+			e.Time, e.UTime = t.Value, t.U
+		default:
+			return st, withHint(usagef("electrical calibration: give --heater-power with --heater-time, or --heater-voltage, --heater-current and --heater-time"), "")
+		}
+		st.Electrical = e
+	}
+	if s.has("standard") || has("reference-enthalpy") {
+		kinds = append(kinds, "standard")
+		ms, okM := v["sample-mass"]
+		n, okN := v["amount"]
+		if !okM && !okN {
+			return st, usagef("chemical calibration: give --sample-mass, the mass of the standard (g), or --amount (mol) for a standard that is not weighed")
+		}
+		ch := &calorimeter.ChemicalCalibration{Mass: ms.Value, UMass: ms.U, Amount: n.Value, UAmount: n.U}
+		if sm, ok := v["solvent-mass"]; ok {
+			ch.SolventMass = sm.Value
+		}
+		if s.has("standard") {
+			std, err := calorimeter.LookupStandard(s.text("standard"))
+			if err != nil {
+				return st, s.fail("standard", err)
+			}
+			ch.Standard = std
+		} else {
+			f := s.text("formula")
+			if f == "" {
+				return st, usagef("--reference-enthalpy needs --formula for the molar mass")
+			}
+			m, _, err := calorimeter.MolarMass(f)
+			if err != nil {
+				return st, s.fail("formula", err)
+			}
+			h := v["reference-enthalpy"]
+			ch.Standard = calorimeter.Standard{Name: f, Formula: f, MolarMass: m, Weighed: true, Enthalpy: h.Value, UEnthalpy: h.U,
+				RefTemperature: 298.15, TMin: calorimeter.WaterTMin, TMax: calorimeter.WaterTMax,
+				Source: "given with --reference-enthalpy", Conditions: "as given by the user, no temperature correction"}
+		}
+		st.Chemical = ch
+	}
+	if has("cold-mass") || has("hot-mass") || has("hot-temperature") {
+		kinds = append(kinds, "mixing")
+		c, ok1 := v["cold-mass"]
+		h, ok2 := v["hot-mass"]
+		th, ok3 := v["hot-temperature"]
+		if !ok1 || !ok2 || !ok3 {
+			return st, usagef("mixing calibration: give --cold-mass, --hot-mass and --hot-temperature")
+		}
+		st.Mixing = &calorimeter.Mixing{ColdMass: c.Value, UColdMass: c.U, HotMass: h.Value, UHotMass: h.U,
+			HotTemperature: th.Value, UHotTemperature: th.U}
+	}
+	if len(kinds) == 0 {
+		if col := heaterColumn(ri); col != "" {
+			hp, err := calorimeter.HeaterEnergy(ri.log.Time, ri.log.Extra[col])
+			if err != nil {
+				return st, dataf("%s: column %q: %w", ri.name, col, err)
+			}
+			st.Electrical = &calorimeter.Electrical{Energy: hp.Energy, UEnergy: hp.UEnergy}
+			kinds = append(kinds, "electrical")
+		}
+	}
+	switch len(kinds) {
+	case 0:
+		return st, withHint(usagef("%s: no calibration described", ri.name), "give --heater-power/--heater-time, --standard with --sample-mass, or --cold-mass/--hot-mass/--hot-temperature")
+	case 1:
+	default:
+		return st, usagef("%s: the description mixes %s calibrations; give one kind", ri.name, strings.Join(kinds, " and "))
+	}
+	if c, ok := v["contents-mass"]; ok {
+		st.ContentsMass, st.UContentsMass = c.Value, c.U
+	}
+	if !(st.UMass > 0) {
+		st.UMass = calorimeter.DefaultUMass
+	}
+	return st, nil
+}
+
+// heaterColumn names a log column that records heater power, if any.
+func heaterColumn(ri *runInput) string {
+	for _, c := range ri.log.Columns {
+		n := strings.ToLower(c.Name)
+		if c.Role == "extra" && (strings.Contains(n, "power") || strings.Contains(n, "heater")) && (c.Unit == "" || strings.EqualFold(c.Unit, "W")) {
+			return c.Name
+		}
+	}
+	return ""
+}
+
+func (r *calibrationResult) record() ledger.Row {
+	s := r.in.spec
+	run := r.run
+	row := ledger.NewRow()
+	row.RecordedAt, row.RunID, row.Kind = time.Now().UTC(), r.in.runID, "calibration"
+	row.SampleID, row.Operator, row.Formula = s.text("sample-id"), s.text("operator"), s.text("formula")
+	row.Method, row.DeltaTK, row.UDeltaTK = run.CorrectionMethod, run.DeltaT, run.UDeltaT
+	row.HeatCapacityJPerK, row.UHeatCapacityJPerK, row.CoverageFactor = run.HeatCapacity, run.UHeatCapacity, run.Budget.K
+	row.Status, row.Checks = string(run.Status), checksSummary(run.Checks)
+	row.InputFile, row.InputSHA256, row.Note = r.in.name, r.in.sha256, s.text("note")
+	row.Calibration = run.Method + " calibration"
+	if run.StandardName != "" {
+		row.Calibration = run.Method + " calibration with " + run.StandardName
+	}
+	return row
+}
+
+func calibrationJSON(cal *calorimeter.Calibration) map[string]any {
+	runs := make([]map[string]any, 0, len(cal.Runs))
+	for _, r := range cal.Runs {
+		m := map[string]any{
+			"run_id": r.RunID, "input": inputJSON{r.File, r.SHA256, r.Points}, "calibration_method": r.Method,
+			"variant": r.Variant, "method": r.CorrectionMethod, "mix_time_s": r.MixTime,
+			"delta_t_k": r.DeltaT, "u_delta_t_k": r.UDeltaT, "mean_temperature_k": r.MeanTemperature,
+			"heat_j": r.Heat, "u_heat_j": r.UHeat,
+			"heat_capacity_j_per_k": r.HeatCapacity, "u_heat_capacity_j_per_k": r.UHeatCapacity,
+			"checks": r.Checks, "status": r.Status,
+		}
+		if r.Rise != nil {
+			m["periods"] = periodsOf(r.Rise)
+			m["methods"] = r.Rise.Methods
+			m["drift"] = map[string]calorimeter.Drift{"pre": r.Rise.PreDrift, "post": r.Rise.PostDrift}
+		}
+		if r.Budget != nil {
+			m["budget"] = budgetJSON(r.Budget)
+			m["coverage_factor"] = r.Budget.K
+			m["expanded_uncertainty_j_per_k"] = r.Budget.Expanded
+		}
+		if r.Vessel != nil {
+			m["vessel_heat_capacity_j_per_k"], m["u_vessel_heat_capacity_j_per_k"] = *r.Vessel, *r.UVessel
+			m["contents_mass_g"] = r.ContentsMass
+		}
+		if r.StandardName != "" {
+			m["standard"], m["standard_source"] = r.StandardName, r.StandardSource
+		}
+		runs = append(runs, m)
+	}
+	out := map[string]any{
+		"kind": "calibration", "calibration_method": cal.Method,
+		"heat_capacity_j_per_k": cal.HeatCapacity, "u_heat_capacity_j_per_k": cal.UHeatCapacity,
+		"delta_t_k": cal.DeltaT, "mean_temperature_k": cal.MeanTemperature,
+		"runs": runs, "checks": cal.Checks, "status": cal.Status, "created_utc": cal.Created,
+	}
+	if cal.Vessel != nil {
+		out["vessel_heat_capacity_j_per_k"], out["u_vessel_heat_capacity_j_per_k"] = *cal.Vessel, *cal.UVessel
+	}
+	if cal.Scatter != nil {
+		out["scatter"] = cal.Scatter
+	}
+	return out
+}
+
+func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*calibrationResult) error {
+	for i, r := range runs {
+		run := r.run
+		kind := run.Method
+		if run.Variant != "" {
+			kind += ", " + run.Variant
+		}
+		fmt.Fprintf(w, "Calibration run %s (%s) — %s\n", r.in.runID, kind, r.in.name)
+		fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", run.Points, r.in.sha256)
+		writeRiseText(w, run.Rise)
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+		fmt.Fprintf(tw, "Heat put in\t%s\t\n", units.Format(run.Heat, run.UHeat, "J"))
+		if run.StandardName != "" {
+			fmt.Fprintf(tw, "Standard\t%s\t%s\n", run.StandardName, run.StandardSource)
+		}
+		fmt.Fprintf(tw, "Heat capacity ε\t%s\t(k = %.2f: U = %s J/K)\n", units.Format(run.HeatCapacity, run.UHeatCapacity, "J/K"), run.Budget.K, uText(run.Budget.Expanded))
+		if run.Vessel != nil {
+			fmt.Fprintf(tw, "Vessel part\t%s\twith %.4g g of liquid\n", units.Format(*run.Vessel, *run.UVessel, "J/K"), run.ContentsMass)
+		}
+		tw.Flush()
+		fmt.Fprintln(w, "\nUncertainty budget of ε (GUM law of propagation, JCGM 100:2008)")
+		if err := calorimeter.WriteBudgetTable(w, run.Budget, "J/K"); err != nil {
+			return err
+		}
+		writeChecksText(w, run.Checks, run.Status)
+		if i < len(runs)-1 {
+			fmt.Fprintln(w, "\n"+strings.Repeat("─", 72))
+		}
+	}
+	if len(runs) > 1 {
+		fmt.Fprintf(w, "\nCombined calibration of %d runs (%s)\n", len(runs), cal.Method)
+	} else {
+		fmt.Fprintln(w, "\nCalibration")
+	}
+	fmt.Fprintf(w, "  heat capacity ε = %s\n", units.Format(cal.HeatCapacity, cal.UHeatCapacity, "J/K"))
+	if cal.Vessel != nil {
+		fmt.Fprintf(w, "  vessel part C_v = %s (reusable with other fills)\n", units.Format(*cal.Vessel, *cal.UVessel, "J/K"))
+	}
+	if cal.Scatter != nil {
+		fmt.Fprintf(w, "  scatter between runs: sd %.3g J/K, Birge ratio %.2f\n", cal.Scatter.SDJPerK, cal.Scatter.BirgeRatio)
+	}
+	writeChecksText(w, cal.Checks, cal.Status)
+	return nil
+}

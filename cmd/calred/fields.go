@@ -1,0 +1,163 @@
+package main
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	flag "github.com/spf13/pflag"
+
+	"calred/units"
+)
+
+// A field is one item of a run's description. The same names serve as
+// flags (`--sample-mass`), as `# sample-mass: 2.503 g` lines at the top of a
+// log, and as manifest columns (`sample_mass`). Flags and manifest cells
+// override the log's own lines.
+type field struct {
+	name string
+	dim  units.Dimension // units.Dimensionless with text=true for plain text
+	unit string          // default unit of a bare number
+	text bool            // free text, not a quantity
+	use  string          // which commands: r reduce, c calibrate
+	help string
+}
+
+var fields = []field{
+	// The sample.
+	{name: "sample-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of the solute dissolved (or of the standard), g"},
+	{name: "formula", text: true, use: "rc", help: "chemical formula of the solute, e.g. KNO3 or CuSO4·5H2O"},
+	{name: "molar-mass", dim: units.MolarMass, unit: "g/mol", use: "rc", help: "molar mass of the solute, g/mol (instead of --formula)"},
+	{name: "solvent-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of solvent (water) in the vessel, g"},
+	{name: "solution-cp", dim: units.SpecificHeat, unit: "J/(g·K)", use: "rc", help: "specific heat of the solution, J/(g·K) (default: water at the run's mean temperature)"},
+	{name: "u-mass", dim: units.Mass, unit: "g", use: "rc", help: "standard uncertainty of each weighing, g (default 0.0005 g, stated in the output)"},
+	// The calorimeter.
+	{name: "cal", text: true, use: "r", help: "calibration file written by `calred calibrate -o`"},
+	{name: "heat-capacity", dim: units.HeatCapacity, unit: "J/K", use: "r", help: "total heat capacity of the calorimeter, J/K, e.g. 452±0.8J/K"},
+	// Calibrations.
+	{name: "heater-power", dim: units.Power, unit: "W", use: "c", help: "electrical calibration: heater power, W"},
+	{name: "heater-time", dim: units.Time, unit: "s", use: "c", help: "electrical calibration: heating time, s"},
+	{name: "heater-voltage", dim: units.Voltage, unit: "V", use: "c", help: "electrical calibration: heater voltage, V (with --heater-current)"},
+	{name: "heater-current", dim: units.Current, unit: "A", use: "c", help: "electrical calibration: heater current, A (with --heater-voltage)"},
+	{name: "standard", text: true, use: "c", help: "chemical calibration: built-in standard (kcl, tris-hcl, tris-naoh, neutralisation)"},
+	{name: "amount", dim: units.Amount, unit: "mol", use: "c", help: "chemical calibration: amount of the limiting reagent, mol (for neutralisation, which is not weighed)"},
+	{name: "reference-enthalpy", dim: units.MolarEnthalpy, unit: "kJ/mol", use: "c", help: "chemical calibration: ΔsolH of the substance given by --formula, kJ/mol with ±u"},
+	{name: "cold-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of cold water in the vessel, g"},
+	{name: "hot-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of hot water added, g"},
+	{name: "hot-temperature", dim: units.Temperature, unit: "°C", use: "c", help: "mixing calibration: temperature of the hot water when poured, °C"},
+	{name: "contents-mass", dim: units.Mass, unit: "g", use: "c", help: "liquid mass present during the calibration, g (splits off the vessel's own heat capacity)"},
+	// Periods and method.
+	{name: "mix-time", dim: units.Time, unit: "s", use: "rc", help: "time the process started, s from the first reading (default: detected)"},
+	{name: "pre", text: true, use: "rc", help: "fore period START:END, s (default: detected)"},
+	{name: "post", text: true, use: "rc", help: "after period START:END, s (default: detected)"},
+	{name: "method", text: true, use: "rc", help: "correction method: auto, regnault-pfaundler, dickinson, extrapolation, model"},
+	{name: "u-temperature", dim: units.TemperatureDifference, unit: "K", use: "rc", help: "standard uncertainty of the probe calibration, K (default: none)"},
+	// Log reading.
+	{name: "time-column", text: true, use: "rc", help: "name or 1-based number of the time column (default: detected)"},
+	{name: "temperature-column", text: true, use: "rc", help: "name or 1-based number of the temperature column (default: detected)"},
+	{name: "time-unit", text: true, use: "rc", help: "time base: s, min, h, ms, mm:ss, hh:mm:ss, iso8601 (default: detected)"},
+	{name: "temperature-unit", text: true, use: "rc", help: "temperature unit: C, K, F (default: from the header)"},
+	{name: "delimiter", text: true, use: "rc", help: "field delimiter: comma, semicolon, tab, space (default: detected)"},
+	{name: "decimal", text: true, use: "rc", help: "decimal mark: point or comma (default: detected)"},
+	// Records.
+	{name: "run-id", text: true, use: "rc", help: "run identifier (default: the log's file name without extension)"},
+	{name: "operator", text: true, use: "rc", help: "who ran the measurement"},
+	{name: "sample-id", text: true, use: "rc", help: "sample or lot identifier"},
+	{name: "note", text: true, use: "rc", help: "free note recorded with the result"},
+}
+
+func fieldByName(name string) (field, bool) {
+	for _, f := range fields {
+		if f.name == name {
+			return f, true
+		}
+	}
+	return field{}, false
+}
+
+// spec is a run's description gathered from the log's metadata, the
+// manifest and the flags, each value remembering where it came from.
+type spec struct {
+	values map[string]string
+	origin map[string]string // "flag --sample-mass", "run7.csv:3", "manifest.csv:4"
+}
+
+func newSpec() *spec {
+	return &spec{values: map[string]string{}, origin: map[string]string{}}
+}
+
+func (s *spec) set(name, value, origin string) {
+	s.values[name] = value
+	s.origin[name] = origin
+}
+
+func (s *spec) has(name string) bool {
+	v, ok := s.values[name]
+	return ok && strings.TrimSpace(v) != ""
+}
+
+func (s *spec) text(name string) string { return strings.TrimSpace(s.values[name]) }
+
+// quantity parses a field; ok is false when the field is absent. A bad value
+// is a usage error for a flag and a data error for a file, naming where it
+// came from.
+func (s *spec) quantity(name string) (q units.Quantity, ok bool, err error) {
+	if !s.has(name) {
+		return units.Quantity{}, false, nil
+	}
+	f, known := fieldByName(name)
+	if !known || f.text {
+		panic("calred: quantity of unknown or text field " + name)
+	}
+	q, err = units.Parse(s.values[name], f.dim, f.unit)
+	if err != nil {
+		return q, false, s.fail(name, err)
+	}
+	return q, true, nil
+}
+
+// fail wraps err with the field's origin.
+func (s *spec) fail(name string, err error) error {
+	o := s.origin[name]
+	if strings.HasPrefix(o, "flag ") {
+		return usagef("%s: %w", o, err)
+	}
+	return dataf("%s: %s: %w", o, name, err)
+}
+
+// failf is fail with a formatted message.
+func (s *spec) failf(name, format string, a ...any) error {
+	return s.fail(name, fmt.Errorf(format, a...))
+}
+
+// addFieldFlags registers the flags of the fields used by command c ('r' or 'c').
+func addFieldFlags(fs *flag.FlagSet, c byte) {
+	for _, f := range fields {
+		if strings.IndexByte(f.use, c) >= 0 {
+			fs.String(f.name, "", f.help)
+		}
+	}
+}
+
+// fromFlags copies the field flags the user set into s.
+func (s *spec) fromFlags(fs *flag.FlagSet) {
+	fs.Visit(func(fl *flag.Flag) {
+		if _, ok := fieldByName(fl.Name); ok {
+			s.set(fl.Name, fl.Value.String(), "flag --"+fl.Name)
+		}
+	})
+}
+
+// fromMeta copies a log's `# key: value` lines that name a field into s,
+// and returns the keys it did not know (reported as warnings).
+func (s *spec) fromMeta(file string, meta map[string]string, line map[string]int) (unknown []string) {
+	for k, v := range meta {
+		if _, ok := fieldByName(k); ok {
+			s.set(k, v, fmt.Sprintf("%s:%d", file, line[k]))
+		} else {
+			unknown = append(unknown, k)
+		}
+	}
+	sort.Strings(unknown)
+	return unknown
+}

@@ -1,0 +1,226 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"calred/calorimeter"
+	"calred/calorimeter/ledger"
+	"calred/calorimeter/plot"
+	"calred/units"
+)
+
+const ledgerAbout = `Work with a results ledger (an append-only, hash-chained CSV):
+  verify LEDGER.csv             check the header, every row and the hash chain; exit 0 only when intact
+  show LEDGER.csv [filters]     print the rows as a table (--json for JSON lines)
+  chart LEDGER.csv -o FILE      control chart of a recorded quantity (heat capacity by default)`
+
+func runLedger(a *app, args []string) error {
+	if len(args) == 0 || args[0] == "--help" || args[0] == "-h" {
+		fs := newFlags(a, "ledger", "verify|show|chart LEDGER.csv [flags]", ledgerAbout)
+		if len(args) == 0 {
+			return withHint(usagef("ledger: want verify, show or chart"), "calred ledger verify results.csv")
+		}
+		fs.Usage()
+		return nil
+	}
+	switch args[0] {
+	case "verify":
+		return runLedgerVerify(a, args[1:])
+	case "show":
+		return runLedgerShow(a, args[1:])
+	case "chart":
+		return runLedgerChart(a, args[1:])
+	}
+	return withHint(usagef("ledger: unknown action %q (use verify, show or chart)", args[0]), "calred ledger --help")
+}
+
+func oneLedger(a *app, fsName string, fs interface {
+	NArg() int
+	Arg(int) string
+}) (string, error) {
+	if fs.NArg() != 1 {
+		return "", usagef("ledger %s: want exactly one LEDGER.csv, got %d arguments", fsName, fs.NArg())
+	}
+	return fs.Arg(0), nil
+}
+
+func runLedgerVerify(a *app, args []string) error {
+	fs := newFlags(a, "ledger verify", "LEDGER.csv", "Check the header, every row and the hash chain of a ledger. Exit 0 only when intact;\notherwise name the first bad line and why.")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	path, err := oneLedger(a, "verify", fs)
+	if err != nil {
+		return err
+	}
+	f, err := openInput(path)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	rep, err := ledger.Verify(f, filepath.Base(path))
+	if err != nil {
+		var ve *ledger.VerifyError
+		if errors.As(err, &ve) {
+			return dataErr(err)
+		}
+		return dataf("%s: %w", filepath.Base(path), err)
+	}
+	fmt.Fprintf(a.stdout, "%s: intact — %d rows, hash chain unbroken, last hash %s\n", filepath.Base(path), rep.Rows, rep.LastHash)
+	if n := len(rep.Superseded); n > 0 {
+		fmt.Fprintf(a.stdout, "%d row(s) replaced by later corrections\n", n)
+	}
+	return nil
+}
+
+func readLedger(path string) ([]ledger.Row, map[string]string, error) {
+	f, err := openInput(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	defer f.Close()
+	rows, err := ledger.Read(f, filepath.Base(path))
+	if err != nil {
+		return nil, nil, dataErr(err)
+	}
+	return rows, ledger.Superseded(rows), nil
+}
+
+func runLedgerShow(a *app, args []string) error {
+	fs := newFlags(a, "ledger show", "LEDGER.csv [filters]", "Print ledger rows as an aligned table, oldest first.")
+	kind := fs.String("kind", "", "only rows of this kind: sample or calibration")
+	sampleID := fs.String("sample-id", "", "only rows with this sample id")
+	status := fs.String("status", "", "only rows with this status: pass, warn or fail")
+	since := fs.String("since", "", "only rows recorded at or after this UTC date or time (2026-03-04 or RFC 3339)")
+	asJSON := fs.Bool("json", false, "print JSON lines, one object per row")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	path, err := oneLedger(a, "show", fs)
+	if err != nil {
+		return err
+	}
+	flt := ledger.Filter{Kind: *kind, SampleID: *sampleID, Status: *status}
+	if *since != "" {
+		t, err := parseSince(*since)
+		if err != nil {
+			return usagef("flag --since: %w", err)
+		}
+		flt.Since = t
+	}
+	switch *kind {
+	case "", "sample", "calibration":
+	default:
+		return usagef("flag --kind: %q is not sample or calibration", *kind)
+	}
+	switch *status {
+	case "", "pass", "warn", "fail":
+	default:
+		return usagef("flag --status: %q is not pass, warn or fail", *status)
+	}
+	rows, sup, err := readLedger(path)
+	if err != nil {
+		return err
+	}
+	var keep []ledger.Row
+	for _, r := range rows {
+		if flt.Match(r) {
+			keep = append(keep, r)
+		}
+	}
+	if *asJSON {
+		return ledger.WriteJSONLines(a.stdout, keep, sup)
+	}
+	return ledger.WriteTable(a.stdout, keep, sup)
+}
+
+func parseSince(s string) (time.Time, error) {
+	for _, layout := range []string{time.RFC3339Nano, "2006-01-02T15:04:05", "2006-01-02 15:04", "2006-01-02"} {
+		if t, err := time.Parse(layout, s); err == nil {
+			return t.UTC(), nil
+		}
+	}
+	return time.Time{}, fmt.Errorf("%q is not a date (2026-03-04) or an RFC 3339 time", s)
+}
+
+func runLedgerChart(a *app, args []string) error {
+	fs := newFlags(a, "ledger chart", "LEDGER.csv -o FILE [flags]",
+		"Draw an individuals control chart of a recorded quantity in time order: centre line,\n"+
+			"±2σ and ±3σ limits with σ from the average moving range / 1.128 (NIST/SEMATECH\n"+
+			"e-Handbook of Statistical Methods, §6.3.2), points that break a run rule marked and listed.")
+	output := fs.StringP("output", "o", "", "write the chart to FILE.svg or FILE.png")
+	quantity := fs.String("quantity", "heat-capacity", "what to chart: heat-capacity (J/K) or molar-enthalpy (kJ/mol)")
+	kind := fs.String("kind", "", "only rows of this kind (default: calibration for heat-capacity, sample for molar-enthalpy)")
+	sampleID := fs.String("sample-id", "", "only rows with this sample id")
+	formula := fs.String("formula", "", "only rows with this formula")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	path, err := oneLedger(a, "chart", fs)
+	if err != nil {
+		return err
+	}
+	if *output == "" {
+		return withHint(usagef("ledger chart: give the output file with -o FILE.svg or -o FILE.png"), "")
+	}
+	var pick func(r ledger.Row) float64
+	unit := ""
+	switch *quantity {
+	case "heat-capacity":
+		pick, unit = func(r ledger.Row) float64 { return r.HeatCapacityJPerK }, "J/K"
+		if *kind == "" {
+			*kind = "calibration"
+		}
+	case "molar-enthalpy":
+		pick, unit = func(r ledger.Row) float64 { return r.MolarEnthalpyKJPerMol }, "kJ/mol"
+		if *kind == "" {
+			*kind = "sample"
+		}
+	default:
+		return usagef("flag --quantity: %q is not heat-capacity or molar-enthalpy", *quantity)
+	}
+	rows, sup, err := readLedger(path)
+	if err != nil {
+		return err
+	}
+	var vals []float64
+	var pts []plot.ChartPoint
+	var labels []string
+	for _, r := range rows {
+		if _, replaced := sup[r.Hash]; replaced {
+			continue
+		}
+		if r.Kind != *kind || (*sampleID != "" && r.SampleID != *sampleID) || (*formula != "" && r.Formula != *formula) {
+			continue
+		}
+		v := pick(r)
+		if math.IsNaN(v) {
+			continue
+		}
+		vals = append(vals, v)
+		labels = append(labels, r.RunID)
+		pts = append(pts, plot.ChartPoint{Time: r.RecordedAt, Value: v, Label: r.RunID})
+	}
+	if len(vals) < 2 {
+		return dataf("%s: %d %s row(s) with a %s value; a control chart needs at least 2", filepath.Base(path), len(vals), *kind, *quantity)
+	}
+	chart, err := calorimeter.IndividualsChart(vals)
+	if err != nil {
+		return dataErr(err)
+	}
+	name := strings.ReplaceAll(*quantity, "-", " ")
+	if err := writePlot(*output, func(w io.Writer, format string) error {
+		return plot.WriteControlChart(w, format, chart, pts, name, unit, plot.Options{})
+	}); err != nil {
+		return err
+	}
+	fmt.Fprintf(a.stdout, "Control chart of %s (%s), %d runs of kind %s → %s\n", name, unit, len(vals), *kind, *output)
+	fmt.Fprintf(a.stdout, "  centre %s, σ = %s %s (moving range / 1.128)\n", units.Format(chart.Centre, chart.Sigma, unit), uText(chart.Sigma), unit)
+	return chart.Summary(a.stdout, labels)
+}

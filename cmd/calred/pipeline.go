@@ -1,0 +1,295 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	flag "github.com/spf13/pflag"
+
+	"calred/calorimeter"
+	"calred/calorimeter/logfile"
+	"calred/units"
+)
+
+// outFlags are the output and record-keeping flags shared by reduce and
+// calibrate.
+type outFlags struct {
+	json       *bool
+	plot       *string
+	monteCarlo *string
+	seed       *uint64
+	ledger     *string
+	supersede  *string
+	limits     limitFlags
+}
+
+type limitFlags struct {
+	minFore, minAfter *string
+	minPoints         *int
+	spikeZ            *float64
+}
+
+func addOutFlags(fs *flag.FlagSet, mc bool) *outFlags {
+	o := &outFlags{}
+	o.json = fs.Bool("json", false, "print one JSON object instead of the report")
+	o.plot = fs.String("plot", "", "draw the thermogram with its fits to FILE.svg or FILE.png")
+	if mc {
+		o.monteCarlo = fs.String("monte-carlo", "", "also propagate by Monte Carlo (JCGM 101): N trials, or auto for the adaptive procedure")
+		o.seed = fs.Uint64("seed", 1, "seed of the Monte Carlo random stream (same seed, same result)")
+	}
+	o.ledger = fs.String("ledger", "", "append the result to this ledger CSV (created when absent)")
+	o.supersede = fs.String("supersede", "", "the result corrects the ledger row of this RUN_ID (a new row; nothing is rewritten)")
+	o.limits.minFore = fs.String("min-fore", "", "shortest fore period accepted, s (default 120 s)")
+	o.limits.minAfter = fs.String("min-after", "", "shortest after period accepted, s (default 120 s)")
+	o.limits.minPoints = fs.Int("min-points", 0, "fewest readings in a fore or after period (default 20)")
+	o.limits.spikeZ = fs.Float64("spike-z", 0, "robust z beyond which a reading is a spike (default 6)")
+	return o
+}
+
+// runInput is one log with its description, ready to analyse.
+type runInput struct {
+	path   string
+	name   string // base name
+	log    *logfile.Log
+	sha256 string
+	spec   *spec
+	runID  string
+}
+
+// loadRun reads the log at path and merges its metadata with the
+// description in over (flags or manifest cells), which wins.
+func loadRun(a *app, path string, over *spec) (*runInput, error) {
+	opt, err := logOptions(over)
+	if err != nil {
+		return nil, err
+	}
+	log, sum, err := readLog(path, opt)
+	if err != nil {
+		return nil, err
+	}
+	ri := &runInput{path: path, name: filepath.Base(path), log: log, sha256: sum, spec: newSpec()}
+	ri.spec.fromMeta(ri.name, log.Meta, log.MetaLine)
+	for k, v := range over.values {
+		ri.spec.set(k, v, over.origin[k])
+	}
+	for _, w := range log.Warnings {
+		a.warnf("%s", w)
+	}
+	ri.runID = ri.spec.text("run-id")
+	if ri.runID == "" {
+		ri.runID = strings.TrimSuffix(ri.name, filepath.Ext(ri.name))
+	}
+	return ri, nil
+}
+
+// riseOptions reads the period, method and probe fields.
+func riseOptions(s *spec, lf limitFlags) (calorimeter.RiseOptions, error) {
+	opt := calorimeter.RiseOptions{MixTime: math.NaN(), Method: "auto", Limits: calorimeter.DefaultCheckLimits()}
+	if q, ok, err := s.quantity("mix-time"); err != nil {
+		return opt, err
+	} else if ok {
+		opt.MixTime = q.Value
+	}
+	for _, name := range []string{"pre", "post"} {
+		if !s.has(name) {
+			continue
+		}
+		p, err := parsePeriod(s.text(name))
+		if err != nil {
+			return opt, s.fail(name, err)
+		}
+		if name == "pre" {
+			opt.Pre = &p
+		} else {
+			opt.Post = &p
+		}
+	}
+	if s.has("method") {
+		m := strings.ToLower(s.text("method"))
+		switch m {
+		case "auto", "regnault-pfaundler", "dickinson", "extrapolation", "model":
+			opt.Method = m
+		default:
+			return opt, s.failf("method", "unknown method %q (use auto, regnault-pfaundler, dickinson, extrapolation or model)", m)
+		}
+	}
+	if q, ok, err := s.quantity("u-temperature"); err != nil {
+		return opt, err
+	} else if ok {
+		opt.UTemperature = q.Value
+	}
+	if *lf.minFore != "" {
+		q, err := units.Parse(*lf.minFore, units.Time, "s")
+		if err != nil {
+			return opt, usagef("flag --min-fore: %w", err)
+		}
+		opt.Limits.MinForeS = q.Value
+	}
+	if *lf.minAfter != "" {
+		q, err := units.Parse(*lf.minAfter, units.Time, "s")
+		if err != nil {
+			return opt, usagef("flag --min-after: %w", err)
+		}
+		opt.Limits.MinAfterS = q.Value
+	}
+	if *lf.minPoints < 0 {
+		return opt, usagef("flag --min-points: %d is negative", *lf.minPoints)
+	} else if *lf.minPoints > 0 {
+		opt.Limits.MinPoints = *lf.minPoints
+	}
+	if *lf.spikeZ < 0 {
+		return opt, usagef("flag --spike-z: %g is negative", *lf.spikeZ)
+	} else if *lf.spikeZ > 0 {
+		opt.Limits.SpikeZ = *lf.spikeZ
+	}
+	return opt, nil
+}
+
+// parsePeriod reads START:END with optional units on each end ("0:300",
+// "0s:5min", "60:4.5min"). A bare number is in seconds.
+func parsePeriod(text string) (calorimeter.Period, error) {
+	a, b, ok := strings.Cut(text, ":")
+	if !ok {
+		return calorimeter.Period{}, fmt.Errorf("%q: want START:END in s, e.g. 0:300", text)
+	}
+	qa, err := units.Parse(a, units.Time, "s")
+	if err != nil {
+		return calorimeter.Period{}, err
+	}
+	qb, err := units.Parse(b, units.Time, "s")
+	if err != nil {
+		return calorimeter.Period{}, err
+	}
+	if !(qb.Value > qa.Value) {
+		return calorimeter.Period{}, fmt.Errorf("%q: the end %g s is not after the start %g s", text, qb.Value, qa.Value)
+	}
+	return calorimeter.Period{Start: qa.Value, End: qb.Value}, nil
+}
+
+// analyse runs the corrected-temperature analysis on a loaded run.
+func analyse(ri *runInput, lf limitFlags) (*calorimeter.Rise, error) {
+	opt, err := riseOptions(ri.spec, lf)
+	if err != nil {
+		return nil, err
+	}
+	rise, err := calorimeter.AnalyseRise(ri.log.Time, ri.log.Temperature, opt)
+	if err != nil {
+		hint := ""
+		if math.IsNaN(opt.MixTime) {
+			hint = "look at the log with `calred inspect`, or give the mixing time with --mix-time"
+		}
+		return nil, withHint(dataf("%s: %w", ri.name, err), hint)
+	}
+	return rise, nil
+}
+
+// sampleOf reads the sample description.
+func sampleOf(s *spec) (calorimeter.Sample, error) {
+	var smp calorimeter.Sample
+	q, ok, err := s.quantity("sample-mass")
+	if err != nil {
+		return smp, err
+	}
+	if !ok {
+		return smp, withHint(usagef("no sample mass: give --sample-mass (g)"), "or put a `# sample-mass: 2.503 g` line at the top of the log")
+	}
+	smp.Mass, smp.UMass = q.Value, q.U
+	if uq, ok, err := s.quantity("u-mass"); err != nil {
+		return smp, err
+	} else if ok {
+		if q.HasU {
+			return smp, s.failf("u-mass", "the sample mass already carries its uncertainty (%s); give one or the other", s.text("sample-mass"))
+		}
+		smp.UMass = uq.Value
+	}
+	smp.Formula = s.text("formula")
+	if q, ok, err := s.quantity("molar-mass"); err != nil {
+		return smp, err
+	} else if ok {
+		smp.MolarMass, smp.UMolarMass = q.Value, q.U
+	} else if smp.Formula != "" {
+		m, u, err := calorimeter.MolarMass(smp.Formula)
+		if err != nil {
+			return smp, s.fail("formula", err)
+		}
+		smp.MolarMass, smp.UMolarMass = m, u
+	} else {
+		return smp, withHint(usagef("no molar mass: give --formula or --molar-mass"), "e.g. --formula KNO3")
+	}
+	if q, ok, err := s.quantity("solvent-mass"); err != nil {
+		return smp, err
+	} else if ok {
+		smp.SolventMass, smp.USolventMass = q.Value, q.U
+	}
+	if q, ok, err := s.quantity("solution-cp"); err != nil {
+		return smp, err
+	} else if ok {
+		smp.SolutionCp, smp.USolutionCp = q.Value, q.U
+	}
+	return smp, nil
+}
+
+// uMass is the balance uncertainty of a run (the default stated in reports).
+func uMass(s *spec) (float64, error) {
+	q, ok, err := s.quantity("u-mass")
+	if err != nil || !ok {
+		return calorimeter.DefaultUMass, err
+	}
+	return q.Value, nil
+}
+
+// loadCalibration reads a calibration file; its hash identifies it in the ledger.
+func loadCalibration(path string) (*calorimeter.Calibration, error) {
+	b, err := os.ReadFile(path)
+	if err != nil {
+		var pe *os.PathError
+		if ok := asPathError(err, &pe); ok {
+			return nil, dataf("%s: %v", path, pe.Err)
+		}
+		return nil, dataErr(err)
+	}
+	cal, err := calorimeter.ReadCalibration(strings.NewReader(string(b)))
+	if err != nil {
+		return nil, dataf("%s: %w", filepath.Base(path), err)
+	}
+	cal.SHA256 = sha256Hex(b)
+	return cal, nil
+}
+
+// heatCapacityOf reads --cal or --heat-capacity.
+func heatCapacityOf(s *spec, dir string, cals map[string]*calorimeter.Calibration) (calorimeter.HeatCapacity, error) {
+	var hc calorimeter.HeatCapacity
+	if s.has("cal") && s.has("heat-capacity") {
+		return hc, usagef("give --cal or --heat-capacity, not both")
+	}
+	if s.has("cal") {
+		name := s.text("cal")
+		if c, ok := cals[name]; ok {
+			hc.Calibration, hc.Source = c, name
+			return hc, nil
+		}
+		p := name
+		if dir != "" && !filepath.IsAbs(p) {
+			p = filepath.Join(dir, p)
+		}
+		cal, err := loadCalibration(p)
+		if err != nil {
+			return hc, err
+		}
+		hc.Calibration, hc.Source = cal, "sha256:"+cal.SHA256
+		return hc, nil
+	}
+	q, ok, err := s.quantity("heat-capacity")
+	if err != nil {
+		return hc, err
+	}
+	if !ok {
+		return hc, withHint(usagef("no heat capacity: give --cal FILE or --heat-capacity VALUE±u (J/K)"), "make a calibration file with `calred calibrate LOG --heater-power … -o cal.json`")
+	}
+	hc.Value, hc.U, hc.Source = q.Value, q.U, "given "+strconv.FormatFloat(q.Value, 'g', -1, 64)+" J/K"
+	return hc, nil
+}
