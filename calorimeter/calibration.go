@@ -37,7 +37,7 @@ type Electrical struct {
 // ChemicalCalibration is a run that dissolves (or reacts) a mass of a
 // calibration standard with certified enthalpy.
 type ChemicalCalibration struct {
-	Standard    Standard
+	Standard        Standard
 	Mass, UMass     float64 // g (for standards that are weighed)
 	Amount, UAmount float64 // mol of the limiting reagent, for standards that are not weighed (neutralisation)
 	SolventMass     float64 // g, for the final molality (0 = the standard's reference molality)
@@ -46,8 +46,8 @@ type ChemicalCalibration struct {
 // Mixing is a hot/cold water mixing calibration: ColdMass of water in the
 // vessel, HotMass of water at HotTemperature (K) poured in at the mixing time.
 type Mixing struct {
-	ColdMass, UColdMass           float64 // g
-	HotMass, UHotMass             float64 // g
+	ColdMass, UColdMass             float64 // g
+	HotMass, UHotMass               float64 // g
 	HotTemperature, UHotTemperature float64 // K
 }
 
@@ -83,55 +83,55 @@ type StoredCorrelation struct {
 
 // CalibrationRun is one reduced calibration log.
 type CalibrationRun struct {
-	RunID              string              `json:"run_id"`
-	File               string              `json:"file"`
-	SHA256             string              `json:"sha256"`
-	Points             int                 `json:"points"`
-	Method             string              `json:"calibration_method"`
-	Variant            string              `json:"variant"`
-	CorrectionMethod   string              `json:"method"`
-	MixTime            float64             `json:"mix_time_s"`
-	DeltaT             float64             `json:"delta_t_k"`
-	UDeltaT            float64             `json:"u_delta_t_k"`
-	MeanTemperature    float64             `json:"mean_temperature_k"`
-	Heat               float64             `json:"heat_j"`
-	UHeat              float64             `json:"u_heat_j"`
-	HeatCapacity       float64             `json:"heat_capacity_j_per_k"`
-	UHeatCapacity      float64             `json:"u_heat_capacity_j_per_k"`
-	Vessel             *float64            `json:"vessel_heat_capacity_j_per_k,omitempty"`
-	UVessel            *float64            `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
-	ContentsMass       float64             `json:"contents_mass_g,omitempty"`
-	StandardName       string              `json:"standard,omitempty"`
-	StandardSource     string              `json:"standard_source,omitempty"`
-	Inputs             []StoredInput       `json:"inputs"`
-	Correlations       []StoredCorrelation `json:"correlations,omitempty"`
-	Budget             *Budget             `json:"budget,omitempty"`
-	Checks             []Check             `json:"checks"`
-	Status             Status              `json:"status"`
-	Rise               *Rise               `json:"-"`
+	RunID            string              `json:"run_id"`
+	File             string              `json:"file"`
+	SHA256           string              `json:"sha256"`
+	Points           int                 `json:"points"`
+	Method           string              `json:"calibration_method"`
+	Variant          string              `json:"variant"`
+	CorrectionMethod string              `json:"method"`
+	MixTime          float64             `json:"mix_time_s"`
+	DeltaT           float64             `json:"delta_t_k"`
+	UDeltaT          float64             `json:"u_delta_t_k"`
+	MeanTemperature  float64             `json:"mean_temperature_k"`
+	Heat             float64             `json:"heat_j"`
+	UHeat            float64             `json:"u_heat_j"`
+	HeatCapacity     float64             `json:"heat_capacity_j_per_k"`
+	UHeatCapacity    float64             `json:"u_heat_capacity_j_per_k"`
+	Vessel           *float64            `json:"vessel_heat_capacity_j_per_k,omitempty"`
+	UVessel          *float64            `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
+	ContentsMass     float64             `json:"contents_mass_g,omitempty"`
+	StandardName     string              `json:"standard,omitempty"`
+	StandardSource   string              `json:"standard_source,omitempty"`
+	Inputs           []StoredInput       `json:"inputs"`
+	Correlations     []StoredCorrelation `json:"correlations,omitempty"`
+	Budget           *Budget             `json:"budget,omitempty"`
+	Checks           []Check             `json:"checks"`
+	Status           Status              `json:"status"`
+	Rise             *Rise               `json:"-"`
 }
 
 // Calibration is the calorimeter's heat capacity from one or more runs, as
 // written to and read from a calibration file.
 type Calibration struct {
-	Format             int              `json:"calred_calibration_format"`
-	Kind               string           `json:"kind"`
-	Method             string           `json:"calibration_method"`
-	HeatCapacity       float64          `json:"heat_capacity_j_per_k"`
-	UHeatCapacity      float64          `json:"u_heat_capacity_j_per_k"`
-	DoF                float64          `json:"dof,omitempty"`
-	Vessel             *float64         `json:"vessel_heat_capacity_j_per_k,omitempty"`
-	UVessel            *float64         `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
-	ContentsMass       float64          `json:"contents_mass_g,omitempty"`
-	DeltaT             float64          `json:"delta_t_k"`
-	MeanTemperature    float64          `json:"mean_temperature_k"`
-	Scatter            *ScatterSummary  `json:"scatter,omitempty"`
-	Runs               []CalibrationRun `json:"runs"`
-	Checks             []Check          `json:"checks"`
-	Status             Status           `json:"status"`
-	Created            time.Time        `json:"created_utc"`
-	ProgramVersion     string           `json:"program_version,omitempty"`
-	SHA256             string           `json:"-"` // of the calibration file, when read from one
+	Format          int              `json:"calred_calibration_format"`
+	Kind            string           `json:"kind"`
+	Method          string           `json:"calibration_method"`
+	HeatCapacity    float64          `json:"heat_capacity_j_per_k"`
+	UHeatCapacity   float64          `json:"u_heat_capacity_j_per_k"`
+	DoF             float64          `json:"dof,omitempty"`
+	Vessel          *float64         `json:"vessel_heat_capacity_j_per_k,omitempty"`
+	UVessel         *float64         `json:"u_vessel_heat_capacity_j_per_k,omitempty"`
+	ContentsMass    float64          `json:"contents_mass_g,omitempty"`
+	DeltaT          float64          `json:"delta_t_k"`
+	MeanTemperature float64          `json:"mean_temperature_k"`
+	Scatter         *ScatterSummary  `json:"scatter,omitempty"`
+	Runs            []CalibrationRun `json:"runs"`
+	Checks          []Check          `json:"checks"`
+	Status          Status           `json:"status"`
+	Created         time.Time        `json:"created_utc"`
+	ProgramVersion  string           `json:"program_version,omitempty"`
+	SHA256          string           `json:"-"` // of the calibration file, when read from one
 }
 
 // ScatterSummary compares the spread between calibration runs with their

@@ -41,28 +41,28 @@ type ReduceOptions struct {
 // Reduction is the result of a sample run: from the corrected temperature
 // change to the molar enthalpy of solution.
 type Reduction struct {
-	Rise                 *Rise
-	Sample               Sample
-	HeatCapacity         float64 // J/K, total, as used for this run
-	UHeatCapacity        float64
-	HeatCapacityBasis    string  // how ε was obtained for this run, one line
-	HeatReleased         float64 // J, q = ε·ΔT (negative when endothermic)
-	UHeatReleased        float64
-	Amount               float64 // mol
-	Molality             float64 // mol/kg (NaN when the solvent mass is unknown)
-	WaterRatio           float64 // mol water per mol solute (NaN when unknown)
-	MolarEnthalpy        float64 // kJ/mol, ΔsolH = −q/n
-	UMolarEnthalpy       float64
-	Expanded             float64 // kJ/mol, U = k·u
-	CoverageFactor       float64
-	DoF                  float64 // ν_eff (+Inf when all inputs are type B)
-	Budget               *Budget
-	Checks               []Check
-	Status               Status
-	Convention           string
-	chainInputs          []Input
-	chainCorr            [][]float64
-	model                Model
+	Rise              *Rise
+	Sample            Sample
+	HeatCapacity      float64 // J/K, total, as used for this run
+	UHeatCapacity     float64
+	HeatCapacityBasis string  // how ε was obtained for this run, one line
+	HeatReleased      float64 // J, q = ε·ΔT (negative when endothermic)
+	UHeatReleased     float64
+	Amount            float64 // mol
+	Molality          float64 // mol/kg (NaN when the solvent mass is unknown)
+	WaterRatio        float64 // mol water per mol solute (NaN when unknown)
+	MolarEnthalpy     float64 // kJ/mol, ΔsolH = −q/n
+	UMolarEnthalpy    float64
+	Expanded          float64 // kJ/mol, U = k·u
+	CoverageFactor    float64
+	DoF               float64 // ν_eff (+Inf when all inputs are type B)
+	Budget            *Budget
+	Checks            []Check
+	Status            Status
+	Convention        string
+	chainInputs       []Input
+	chainCorr         [][]float64
+	model             Model
 }
 
 // The sign convention printed with every result.
