@@ -1,0 +1,457 @@
+package calorimeter
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"calred/fit"
+)
+
+// Names of the methods for the corrected temperature change, as used in
+// RiseOptions.Method and as keys of Rise.Methods.
+const (
+	MethodAuto              = "auto"
+	MethodRegnaultPfaundler = "regnault-pfaundler"
+	MethodDickinson         = "dickinson"
+	MethodExtrapolation     = "extrapolation"
+	MethodModel             = "model"
+)
+
+// methodNames lists the methods in the order they are reported.
+var methodNames = []string{MethodRegnaultPfaundler, MethodDickinson, MethodExtrapolation, MethodModel}
+
+// methodGeom is what the methods need besides the linear statistics: the
+// two drift periods, the main period [t1, t2], the mixing time and the
+// trapezoid weights of the two end nodes of the main period.
+type methodGeom struct {
+	fore, after *driftFit
+	t1, t2, tm  float64
+	w0, wn      float64
+}
+
+// methodStats are the linear statistics of the readings through which every
+// method depends on the data: each drift period's mean reading m, slope b
+// and drift temperature T, and the trapezoid sum S = Σ w_k θ_k over the
+// readings strictly inside the main period.
+type methodStats struct {
+	mF, bF, TF, mP, bP, TP, S float64
+}
+
+// methodStatCount is the number of fields of methodStats.
+const methodStatCount = 7
+
+func (s methodStats) get(i int) float64 {
+	return [...]float64{s.mF, s.bF, s.TF, s.mP, s.bP, s.TP, s.S}[i]
+}
+
+func (s *methodStats) add(i int, d float64) {
+	switch i {
+	case 0:
+		s.mF += d
+	case 1:
+		s.bF += d
+	case 2:
+		s.TF += d
+	case 3:
+		s.mP += d
+	case 4:
+		s.bP += d
+	case 5:
+		s.TP += d
+	case 6:
+		s.S += d
+	}
+}
+
+// methodResult holds what the closed-form methods give for one set of
+// statistics.
+type methodResult struct {
+	G, thetaInf    float64
+	theta0, thetaN float64 // Newtonian fore value at t1, after value at t2
+	rp             float64
+	dick, tx       float64 // equal area with the straight drift lines
+	extrap         float64 // straight lines at t_mix
+	initCurve      float64 // Newtonian fore curve at t_mix
+	initLine       float64 // fore line at t_mix
+	dickCurve      float64 // equal area with the Newtonian curves
+	extrapCurve    float64 // Newtonian curves at t_mix
+}
+
+// methodOutputs are the results whose covariance is propagated: the three
+// closed-form methods and the two versions of the initial temperature.
+func (r methodResult) outputs() []float64 {
+	return []float64{r.rp, r.dick, r.extrap, r.initCurve, r.initLine}
+}
+
+const (
+	outRP = iota
+	outDickinson
+	outExtrapolation
+	outInitCurve
+	outInitLine
+	outCount
+)
+
+// eval computes every closed-form method from the statistics.
+//
+// The drift pairs give the cooling constant and convergence temperature
+// (DOMAIN §2),
+//
+//	G = (g_i − g_f)/(T_f − T_i),   θ∞ = T_i + g_i/G,
+//
+// and the drift function g(θ) = g_i − G(θ − T_i), linear in θ.
+//
+// Regnault–Pfaundler integrates g over the main period by the trapezoid
+// rule on the readings (any spacing):
+//
+//	ΔT = (θ_n − θ_0) − ∫_{t1}^{t2} g(θ) dt
+//	   = (θ_n − θ_0) − [g_i·(t2 − t1) − G·(∫θ dt − T_i·(t2 − t1))]
+//
+// which for even sampling is the classic n·Δt·g_i − G·Δt·[(θ_0 + θ_n)/2 +
+// Σθ_k − n·T_i] (DOMAIN §2; ISO 1928 isoperibol annex). The end values θ_0
+// and θ_n are not single readings but the fore and after periods' Newtonian
+// curves (driftFit.curve) at t1 and t2: each is as good as the mean of its
+// period, so one noisy reading cannot dominate, and it carries no line
+// curvature bias.
+//
+// Extrapolation is L_post(t_mix) − L_pre(t_mix) with the straight lines;
+// Dickinson is L_post(t_x) − L_pre(t_x), t_x chosen so that the areas
+// between the readings and the two extrapolated lines are equal (ASTM D240
+// practice; DOMAIN §2). Both are also evaluated with the Newtonian curves in
+// place of the lines, which measures what the lines' curvature costs.
+func (g *methodGeom) eval(s methodStats) methodResult {
+	var r methodResult
+	r.G = (s.bF - s.bP) / (s.TP - s.TF)
+	r.thetaInf = s.TF + s.bF/r.G
+	cF := g.fore.curve(r.G, s.mF, s.bF, s.TF)
+	cP := g.after.curve(r.G, s.mP, s.bP, s.TP)
+	r.theta0 = cF.at(g.t1)
+	r.thetaN = cP.at(g.t2)
+	span := g.t2 - g.t1
+	area := g.w0*r.theta0 + s.S + g.wn*r.thetaN // ∫θ dt over the main period
+	exchange := s.bF*span - r.G*(area-s.TF*span)
+	r.rp = r.thetaN - r.theta0 - exchange
+
+	lF := methodLine{s.mF, s.bF, g.fore.c}
+	lP := methodLine{s.mP, s.bP, g.after.c}
+	r.extrap = lP.at(g.tm) - lF.at(g.tm)
+	r.initLine = lF.at(g.tm)
+	r.initCurve = cF.at(g.tm)
+	r.extrapCurve = cP.at(g.tm) - r.initCurve
+	r.tx = methodEqualArea(g.t1, g.t2, area, lF, lP)
+	r.dick = lP.at(r.tx) - lF.at(r.tx)
+	txc := methodEqualArea(g.t1, g.t2, area, cF, cP)
+	r.dickCurve = cP.at(txc) - cF.at(txc)
+	return r
+}
+
+// methodRef is a reference curve extrapolated into the main period.
+type methodRef interface {
+	at(t float64) float64
+	integral(a, b float64) float64
+}
+
+// methodLine is m + b·(t − c).
+type methodLine struct{ m, b, c float64 }
+
+func (l methodLine) at(t float64) float64 { return l.m + l.b*(t-l.c) }
+func (l methodLine) integral(a, b float64) float64 {
+	return l.m*(b-a) + l.b*((b-l.c)*(b-l.c)-(a-l.c)*(a-l.c))/2
+}
+
+// methodEqualArea returns the time t_x in [t1, t2] at which
+//
+//	A(t_x) = ∫_{t1}^{t2} θ dt − ∫_{t1}^{t_x} pre dt − ∫_{t_x}^{t2} post dt = 0,
+//
+// i.e. the area between the readings and the pre curve before t_x equals the
+// area between the post curve and the readings after it. dA/dt_x =
+// post(t_x) − pre(t_x), the rise itself, so A is monotonic and the root is
+// found by bisection polished with Newton steps. NaN when A does not change
+// sign on [t1, t2] (the readings leave the band between the curves).
+func methodEqualArea(t1, t2, area float64, pre, post methodRef) float64 {
+	fa := func(x float64) float64 {
+		return area - pre.integral(t1, x) - post.integral(x, t2)
+	}
+	lo, hi := t1, t2
+	flo, fhi := fa(lo), fa(hi)
+	if math.IsNaN(flo) || math.IsNaN(fhi) || flo*fhi > 0 {
+		return math.NaN()
+	}
+	if flo == 0 {
+		return lo
+	}
+	if fhi == 0 {
+		return hi
+	}
+	for i := 0; i < 200 && hi-lo > 1e-9*(1+math.Abs(hi)); i++ {
+		mid := lo + (hi-lo)/2
+		fm := fa(mid)
+		if (fm < 0) == (flo < 0) {
+			lo, flo = mid, fm
+		} else {
+			hi = mid
+		}
+	}
+	x := lo + (hi-lo)/2
+	for i := 0; i < 3; i++ { // Newton polish: A′ = post − pre
+		d := post.at(x) - pre.at(x)
+		if d == 0 {
+			break
+		}
+		nx := x - fa(x)/d
+		if !(nx >= t1 && nx <= t2) {
+			break
+		}
+		x = nx
+	}
+	return x
+}
+
+// methodFraction returns the first time at or after t1 at which the
+// fraction of the rise reached,
+//
+//	F(t) = (θ(t) − pre(t))/(post(t) − pre(t)),
+//
+// passes frac, interpolating linearly between readings (t, y increasing t,
+// the main-period readings with the two end nodes). NaN when it never does.
+func methodFraction(t, y []float64, pre, post methodRef, frac float64) float64 {
+	prevT, prevF := math.NaN(), math.NaN()
+	for k := range t {
+		d := post.at(t[k]) - pre.at(t[k])
+		f := (y[k] - pre.at(t[k])) / d
+		if f >= frac {
+			if math.IsNaN(prevF) {
+				return t[k]
+			}
+			return prevT + (frac-prevF)/(f-prevF)*(t[k]-prevT)
+		}
+		prevT, prevF = t[k], f
+	}
+	return math.NaN()
+}
+
+// methodGradient returns ∂output/∂stat for every closed-form output, by
+// central differences with steps fixed in physical units (K for m and T,
+// K/s for b, K·s for S) that are far above rounding and far below any
+// curvature of the methods.
+func (g *methodGeom) methodGradient(s methodStats) [outCount][methodStatCount]float64 {
+	steps := [methodStatCount]float64{1e-6, 1e-9, 1e-6, 1e-6, 1e-9, 1e-6, 1e-4 * math.Max(1, g.t2-g.t1)}
+	var grad [outCount][methodStatCount]float64
+	for i := 0; i < methodStatCount; i++ {
+		up, dn := s, s
+		up.add(i, steps[i])
+		dn.add(i, -steps[i])
+		ou := g.eval(up).outputs()
+		od := g.eval(dn).outputs()
+		for j := 0; j < outCount; j++ {
+			grad[j][i] = (ou[j] - od[j]) / (2 * steps[i])
+		}
+	}
+	return grad
+}
+
+// The model method.
+//
+// The whole record (spikes excluded) is fitted by Levenberg–Marquardt
+// (fit.LevenbergMarquardtVector) with the solution of Newton's law for a
+// first-order release of rate λ starting at t_mix, optionally seen through a
+// probe with first-order lag τ = 1/c (DOMAIN §2, "model fit"):
+//
+//	θ(t) = θ_0 + g_0·φ(t − t_mix) + A·R(t − t_mix)·[t > t_mix]
+//	φ(s) = (1 − e^{−Gs})/G
+//	R(s) = λ·C2(G, λ; s)               without lag
+//	R(s) = λ·c·C3(G, λ, c; s)          with lag
+//
+// where θ_0 and g_0 are the baseline temperature and drift at t_mix, A =
+// Q/ε the corrected temperature change, and C2, C3 the convolutions of two
+// and three decaying exponentials,
+//
+//	C2(a, b; s) = (e^{−as} − e^{−bs})/(b − a)
+//	C3(a, b, c; s) = [C2(a, b; s) − C2(b, c; s)]/(c − a)
+//
+// (the vessel integrates the release, the probe integrates the vessel).
+// Parameters: θ_0, g_0, G, A, ln λ, t_mix and, with lag, ln c. The lag
+// model is kept when it lowers the sum of squares significantly (F > 10 for
+// one extra parameter). Long records are averaged into at most about 6000
+// bins, weighted by their counts, which leaves the least-squares estimate
+// of a smooth model unchanged to second order in the bin width.
+
+// modelResult is the outcome of the model fit.
+type modelResult struct {
+	ok        bool
+	reason    string // why it failed or was not used
+	params    []float64
+	rise, u   float64
+	dof       int
+	sd        float64 // residual SD per reading
+	lag       bool
+	tau       float64 // s, with lag
+	lambda    float64 // 1/s
+	mix       float64 // fitted t_mix
+	g         float64 // fitted G
+	theta0    float64 // baseline at t_mix
+	uTheta0   float64
+	covT0A    float64 // cov(θ_0, A)
+	iters     int
+	nBins     int
+	curveFunc func(t float64) float64
+}
+
+// modelC2 is C2(a, b; s), stable when a ≈ b.
+func modelC2(a, b, s float64) float64 {
+	lo, d := a, b-a
+	if d < 0 {
+		lo, d = b, -d
+	}
+	z := d * s
+	if z < 1e-9 {
+		return s * math.Exp(-lo*s) * (1 - z/2)
+	}
+	return math.Exp(-lo*s) * (-math.Expm1(-z)) / d
+}
+
+// modelC3 is C3(a, b, c; s), symmetric in its rates.
+func modelC3(a, b, c, s float64) float64 {
+	x, y, z := a, b, c
+	if x > y {
+		x, y = y, x
+	}
+	if y > z {
+		y, z = z, y
+	}
+	if x > y {
+		x, y = y, x
+	}
+	if (z-x)*s < 1e-4 {
+		m := (x + y + z) / 3
+		return s * s / 2 * math.Exp(-m*s)
+	}
+	return (modelC2(x, y, s) - modelC2(y, z, s)) / (z - x)
+}
+
+// modelEval is the model at t for parameters p.
+func modelEval(t float64, p []float64) float64 {
+	th0, g0, G, A, lam, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), p[5]
+	v := th0 + g0*riseExpm1(G, t-tm)
+	if s := t - tm; s > 0 {
+		if len(p) > 6 {
+			c := math.Exp(p[6])
+			v += A * lam * c * modelC3(G, lam, c, s)
+		} else {
+			v += A * lam * modelC2(G, lam, s)
+		}
+	}
+	return v
+}
+
+// modelData is the (binned) record the model is fitted to.
+type modelData struct {
+	t, y, sw []float64 // bin mean time, bin mean reading, √count
+}
+
+// modelBin averages readings into bins of size per, never across the
+// boundaries in cuts (indices where a new segment starts).
+func modelBin(t, y []float64, segments [][2]int, maxPoints []int) modelData {
+	var d modelData
+	for si, seg := range segments {
+		lo, hi := seg[0], seg[1]
+		n := hi - lo
+		if n <= 0 {
+			continue
+		}
+		per := 1
+		if n > maxPoints[si] {
+			per = (n + maxPoints[si] - 1) / maxPoints[si]
+		}
+		for k := lo; k < hi; k += per {
+			e := min(hi, k+per)
+			var st, sy float64
+			for i := k; i < e; i++ {
+				st += t[i]
+				sy += y[i]
+			}
+			c := float64(e - k)
+			d.t = append(d.t, st/c)
+			d.y = append(d.y, sy/c)
+			d.sw = append(d.sw, math.Sqrt(c))
+		}
+	}
+	return d
+}
+
+// modelFit fits the model to the readings t, y (spikes excluded) between
+// the fore start and the after end. iMain and iPost are the indices where
+// the main and after periods begin; start holds θ_0, g_0, G, A, λ, t_mix.
+func modelFit(t, y []float64, iMain, iPost int, start [6]float64, infl float64) modelResult {
+	segs := [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}
+	d := modelBin(t, y, segs, []int{2000, 2000, 2000})
+	n := len(d.t)
+	yw := make([]float64, n)
+	for i := range yw {
+		yw[i] = d.sw[i] * d.y[i]
+	}
+	model := func(p []float64, out []float64) {
+		for i := range out {
+			out[i] = d.sw[i] * modelEval(d.t[i], p)
+		}
+	}
+	p0 := []float64{start[0], start[1], start[2], start[3], math.Log(start[4]), start[5]}
+	res := modelResult{nBins: n}
+	nl, err := fit.LevenbergMarquardtVector(model, n, yw, p0, nil)
+	if err != nil {
+		res.reason = modelWhy(err)
+		return res
+	}
+	best := nl
+	// With lag: split the fitted response time between release and probe.
+	lam := math.Exp(nl.Params[4])
+	p1 := append(append([]float64(nil), nl.Params...), math.Log(lam/0.3))
+	p1[4] = math.Log(lam / 0.7)
+	lg, err := fit.LevenbergMarquardtVector(model, n, yw, p1, nil)
+	if err == nil && lg.Cov != nil && lg.SSR < nl.SSR {
+		f := (nl.SSR - lg.SSR) / (lg.SSR / float64(lg.DoF))
+		if f > 10 {
+			best = lg
+			res.lag = true
+		}
+	}
+	p := best.Params
+	if !(p[2] > -1) || math.IsNaN(p[3]) {
+		res.reason = fmt.Sprintf("the fitted cooling constant %.3g 1/s is not physical", p[2])
+		return res
+	}
+	res.ok = true
+	res.params = append([]float64(nil), p...)
+	res.rise = p[3]
+	res.u = math.Sqrt(math.Max(0, best.Cov.At(3, 3))) * infl
+	res.uTheta0 = math.Sqrt(math.Max(0, best.Cov.At(0, 0))) * infl
+	res.covT0A = best.Cov.At(0, 3) * infl * infl
+	res.theta0 = p[0]
+	res.dof = best.DoF
+	res.sd = best.ResidualSD
+	res.lambda = math.Exp(p[4])
+	res.mix = p[5]
+	res.g = p[2]
+	res.iters = best.Iterations
+	if res.lag {
+		res.tau = math.Exp(-p[6])
+		// λ and 1/τ enter the response symmetrically; call the slower the release.
+		if res.tau > 1/res.lambda {
+			res.tau, res.lambda = 1/res.lambda, 1/res.tau
+		}
+	}
+	res.curveFunc = func(t float64) float64 { return modelEval(t, res.params) }
+	return res
+}
+
+// modelWhy turns a fit error into the reason given in the model-fit check.
+func modelWhy(err error) string {
+	switch {
+	case errors.Is(err, fit.ErrNoConvergence):
+		return "the fit did not converge: " + err.Error()
+	case errors.Is(err, fit.ErrSingular):
+		return "the data do not determine every model parameter: " + err.Error()
+	}
+	return err.Error()
+}
