@@ -77,8 +77,9 @@ type StoredInput struct {
 
 // StoredCorrelation is a correlation coefficient between two stored inputs.
 type StoredCorrelation struct {
-	A, B string  `json:"a,omitempty"`
-	R    float64 `json:"r"`
+	A string  `json:"a"`
+	B string  `json:"b"`
+	R float64 `json:"r"`
 }
 
 // CalibrationRun is one reduced calibration log.
