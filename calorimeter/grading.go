@@ -67,7 +67,8 @@ func GradeResult(x, u, U, accepted, uAccepted, sigmaPT float64) Grade {
 
 // Diagnose names the classic mistakes a result's pattern suggests, in plain
 // words for a student: the sign reversed, J confused with kJ, per gram
-// instead of per mole, the calorimeter's own heat capacity left out, and the
+// instead of per mole, the wrong salt, the calorimeter's own heat capacity
+// left out, and the
 // failed or warned checks of the run. It looks at the ratio x/x_pt; each
 // rule allows ±15 % (common practice for teaching-lab runs, whose own
 // uncertainty is several per cent, DOMAIN §10).
@@ -83,6 +84,8 @@ func Diagnose(x, accepted, molarMass float64, checks []Check) []string {
 			out = append(out, "the result is off by a factor of 1000: check J against kJ")
 		case molarMass > 0 && (near(r, 1/molarMass) || near(r, molarMass)):
 			out = append(out, fmt.Sprintf("the result is off by the molar mass (%.1f g/mol): divide the heat by moles, not grams", molarMass))
+		case gradeOtherSubstance(x, accepted, molarMass) != "":
+			out = append(out, gradeOtherSubstance(x, accepted, molarMass))
 		case r > 0 && r < 0.97 && r > 0.5:
 			out = append(out, fmt.Sprintf("the result is %.0f %% low: heat lost to the cup and lid (the calorimeter's own heat capacity) or a late mixing time are the usual causes", 100*(1-r)))
 		case r > 1.03 && r < 2:
@@ -95,6 +98,35 @@ func Diagnose(x, accepted, molarMass float64, checks []Check) []string {
 		}
 	}
 	return out
+}
+
+// gradeOtherSubstance looks for the wrong salt on the bench: a substance of
+// the reference table whose accepted ΔsolH is within 3 % of the result
+// recomputed with that substance's molar mass (the heat per gram is what
+// the run measured), while the run's own accepted value is more than 8 %
+// away. molarMass is the molar mass the run used (g/mol).
+func gradeOtherSubstance(x, accepted, molarMass float64) string {
+	if math.Abs(x/accepted-1) < 0.08 || !(molarMass > 0) {
+		return ""
+	}
+	var best ReferenceEnthalpy
+	bestD, bestX := math.Inf(1), 0.0
+	for _, ref := range References() {
+		h := ref.Enthalpy / 1000
+		m, _, err := MolarMass(ref.Formula)
+		if err != nil || math.Abs(h/accepted-1) < 0.03 {
+			continue
+		}
+		xr := x * m / molarMass
+		if d := math.Abs(xr/h - 1); d < 0.03 && d < bestD {
+			best, bestD, bestX = ref, d, xr
+		}
+	}
+	if math.IsInf(bestD, 1) {
+		return ""
+	}
+	return fmt.Sprintf("recomputed with the molar mass of %s (%s) the result is %.2f kJ/mol, within %.1f %% of that salt's accepted %.2f kJ/mol: check which salt was used and what the label says",
+		best.Formula, best.Name, bestX, 100*bestD, best.Enthalpy/1000)
 }
 
 // Consensus is the robust mean and standard deviation of a set of results

@@ -143,3 +143,9 @@ func Caution(formula string) string {
 	}
 	return ""
 }
+
+// References returns a copy of the table of reference molar enthalpies of
+// solution (DOMAIN §5).
+func References() []ReferenceEnthalpy {
+	return append([]ReferenceEnthalpy(nil), stdReferences...)
+}
