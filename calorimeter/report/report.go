@@ -52,6 +52,24 @@ var page = template.Must(template.New("report").Funcs(template.FuncMap{
 	"svg": func(s string) template.HTML { return template.HTML(s) }, // drawn by our own plot package, not user text
 	"num": reportNum,
 	"utc": func(t time.Time) string { return t.Format("2006-01-02 15:04 UTC") },
+	"notPassed": func(cs []calorimeter.Check) []calorimeter.Check {
+		var out []calorimeter.Check
+		for _, c := range cs {
+			if c.Status != calorimeter.Pass {
+				out = append(out, c)
+			}
+		}
+		return out
+	},
+	"passed": func(cs []calorimeter.Check) []calorimeter.Check {
+		var out []calorimeter.Check
+		for _, c := range cs {
+			if c.Status == calorimeter.Pass {
+				out = append(out, c)
+			}
+		}
+		return out
+	},
 }).Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -97,9 +115,12 @@ Hot or caustic solutions and electrical heaters need eye protection, the substan
 {{if .Caution}}<p class="caution">{{.Caution}}</p>{{end}}
 {{with .Grade}}<p>Accepted {{num .Accepted 2}} kJ/mol: error {{num .ErrorPercent 1}} %, ζ = {{num .Zeta 2}}, En = {{num .En 2}} — <strong>{{.Verdict}}</strong>{{if .Basis}} (by {{.Basis}}){{end}}</p>
 {{if .Feedback}}<ul class="feedback">{{range .Feedback}}<li>{{.}}</li>{{end}}</ul>{{end}}{{end}}
-{{if .Checks}}<table><tr><th>check</th><th>status</th><th>detail</th></tr>
-{{range .Checks}}<tr><td>{{.Name}}</td><td><span class="tag {{.Status}}">{{.Status}}</span></td><td>{{.Detail}}</td></tr>{{end}}
+{{with notPassed .Checks}}<table><tr><th>check</th><th>status</th><th>detail</th></tr>
+{{range .}}<tr><td>{{.Name}}</td><td><span class="tag {{.Status}}">{{.Status}}</span></td><td>{{.Detail}}</td></tr>{{end}}
 </table>{{end}}
+{{with passed .Checks}}<details><summary>{{len .}} checks passed</summary><table>
+{{range .}}<tr><td>{{.Name}}</td><td><span class="tag {{.Status}}">{{.Status}}</span></td><td>{{.Detail}}</td></tr>{{end}}
+</table></details>{{end}}
 </section>
 {{end}}
 <footer>Scores per ISO 13528: |z|, |ζ| ≤ 2 satisfactory, 2–3 questionable, ≥ 3 unsatisfactory; |En| ≤ 1 satisfactory.
