@@ -41,14 +41,16 @@ func TestReadmeCommands(t *testing.T) {
 	for _, c := range cmds {
 		args := strings.Fields(c)
 		for i, a := range args {
-			// Files the README writes go to the temporary directory.
-			if strings.HasSuffix(a, ".html") || strings.HasSuffix(a, ".svg") || strings.HasSuffix(a, ".png") ||
-				(i > 0 && (args[i-1] == "-o" || args[i-1] == "--ledger")) {
-				if !strings.Contains(a, "/") || !strings.HasPrefix(a, "examples/") {
-					args[i] = filepath.Join(out, filepath.Base(a))
+			a = strings.Trim(a, `'"`)
+			// Files the README writes (bare names such as cal.json or results.csv)
+			// live in the temporary directory; inputs are under examples/.
+			switch filepath.Ext(a) {
+			case ".html", ".svg", ".png", ".json", ".csv":
+				if !strings.Contains(a, "/") {
+					a = filepath.Join(out, a)
 				}
 			}
-			args[i] = strings.Trim(args[i], `'"`)
+			args[i] = a
 		}
 		t.Run(c, func(t *testing.T) {
 			code, _, stderr := runCLI(t, args...)
