@@ -379,7 +379,7 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 	}
 	rise := math.Abs(fit.Median(tail) - base(t[iD]))
 	iE := iD + 4
-	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < 0.3*rise {
+	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < hingeFrac*rise {
 		iE++
 	}
 	iE = min(iE, n-1)
@@ -427,6 +427,8 @@ func periodBaseline(t, y []float64) (func(float64) float64, float64, error) {
 
 // periodHinge is the sum of squares of r about 0 before tau and about the
 // best a·s + b·s² (a ≥ 0, s = t − tau) after it.
+var hingeFrac = 0.15
+
 func periodHinge(t, r []float64, tau float64) float64 {
 	var ss, s2, s3, s4, sr, s2r float64
 	for k := range t {

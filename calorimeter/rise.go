@@ -406,8 +406,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"line-curvature", math.Abs(mr.dick - mr.dickCurve), math.Inf(1)})
 	parts[MethodExtrapolation] = append(append(noiseParts(outExtrapolation), common...),
 		RiseUncertainty{"line-curvature", math.Abs(mr.extrap - mr.extrapCurve), math.Inf(1)},
-		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)},
-		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * pl.tmU, math.Inf(1)})
+		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)})
 
 	// T60, Tx and the response time from the main-period readings.
 	yNodes := append(append([]float64{mr.theta0}, d.y[iA:iB]...), mr.thetaN)
@@ -432,6 +431,15 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	mfit := modelFit(d.t[pl.iStart:pl.iEnd], d.y[pl.iStart:pl.iEnd], iA-pl.iStart, iB-pl.iStart,
 		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt, infl)
 	modelOK := mfit.ok && mfit.sd <= lim.MaxResidualRatio*sigma
+	if modelOK && pl.detected {
+		// The detected time is where the readings leave the fore drift; a
+		// lagging probe leaves it later than the process starts. The model's
+		// start says by how much.
+		res.MixTimeU = math.Hypot(pl.tmU, mfit.mix-pl.tm)
+		pl.tmU = res.MixTimeU
+	}
+	parts[MethodExtrapolation] = append(parts[MethodExtrapolation],
+		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * res.MixTimeU, math.Inf(1)})
 	if mfit.ok {
 		values[MethodModel] = mfit.rise
 		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) * (1 - rhoPool) / (1 + rhoPool)}}, common...)
