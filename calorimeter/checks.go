@@ -5,8 +5,6 @@ import (
 	"math"
 	"sort"
 	"strings"
-
-	"calred/fit"
 )
 
 // Status is the verdict of a check.
@@ -215,12 +213,8 @@ func (c *checkContext) driftLinear(name string, f *driftFit, edge float64) Check
 	if f.n < 6 {
 		return Check{name, Warn, fmt.Sprintf("%s period has %d readings, too few to test that its drift is linear in θ", which, f.n)}
 	}
-	q, err := fit.Polynomial(f.t, f.resid, 2)
-	if err != nil {
-		return Check{name, Warn, fmt.Sprintf("%s drift curvature: %v", which, err)}
-	}
-	u := math.Sqrt(q.Cov.At(2, 2)) * f.infl
-	c2 := q.Params[2]
+	c2, u2 := checkCurvature(f.t, f.resid)
+	u := u2 * f.infl
 	z := c2 / u
 	// The curvature's effect at the period's edge next to the main period.
 	h := math.Max(edge-f.c, f.c-edge)
@@ -316,8 +310,12 @@ func (c *checkContext) modelFit() Check {
 	if m.lag {
 		lag = fmt.Sprintf("probe lag %.3g s", m.tau)
 	}
-	return Check{"model-fit", Pass, fmt.Sprintf("model converged in %d iterations on %d points: residual SD %s (%.2g × noise), release rate %.3g 1/s, %s, G %.3g 1/s",
-		m.iters, m.nBins, checkK(m.sd), m.sd/c.sigma, m.lambda, lag, m.g)}
+	release := fmt.Sprintf("first-order release at %.3g 1/s", m.rate)
+	if m.shape == modelPulse {
+		release = fmt.Sprintf("constant-power release for %.4g s", 1/m.rate)
+	}
+	return Check{"model-fit", Pass, fmt.Sprintf("model converged in %d iterations on %d points: residual SD %s (%.2g × noise), %s, %s, G %.3g 1/s",
+		m.iters, m.nBins, checkK(m.sd), m.sd/c.sigma, release, lag, m.g)}
 }
 
 func (c *checkContext) methodAgreement() Check {
@@ -348,4 +346,43 @@ func (c *checkContext) methodAgreement() Check {
 		return Check{"method-agreement", Warn, "methods disagree: " + d}
 	}
 	return Check{"method-agreement", Pass, d}
+}
+
+// checkCurvature returns the second-order coefficient of the least-squares
+// quadratic through (t, r) and its standard uncertainty, in O(n) by the
+// polynomial p2(t) = s² − a·s − b (s = t − t̄) orthogonal to 1 and s over
+// the points (Forsythe, J. SIAM 5 (1957) 74): c2 = Σp2·r/Σp2², u²(c2) =
+// s²_res/Σp2² with s²_res the residual variance of the quadratic on n − 3
+// degrees of freedom.
+func checkCurvature(t, r []float64) (c2, u float64) {
+	n := float64(len(t))
+	var st float64
+	for _, v := range t {
+		st += v
+	}
+	c := st / n
+	var s2, s3, sr, s1r, rr, rm float64
+	for k, v := range t {
+		s := v - c
+		q := s * s
+		s2 += q
+		s3 += q * s
+		sr += r[k]
+		s1r += s * r[k]
+	}
+	rm = sr / n
+	a := s3 / s2
+	b := s2 / n
+	var pp, pr float64
+	for k, v := range t {
+		s := v - c
+		p := s*s - a*s - b
+		pp += p * p
+		pr += p * r[k]
+		d := r[k] - rm
+		rr += d * d
+	}
+	c2 = pr / pp
+	ssr := rr - s1r*s1r/s2 - pr*pr/pp
+	return c2, math.Sqrt(math.Max(0, ssr/(n-3)) / pp)
 }

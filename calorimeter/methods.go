@@ -255,48 +255,64 @@ func (g *methodGeom) methodGradient(s methodStats) [outCount][methodStatCount]fl
 //
 // The whole record (spikes excluded) is fitted by Levenberg–Marquardt
 // (fit.LevenbergMarquardtVector) with the solution of Newton's law for a
-// first-order release of rate λ starting at t_mix, optionally seen through a
-// probe with first-order lag τ = 1/c (DOMAIN §2, "model fit"):
+// release starting at t_mix, optionally seen through a probe with a
+// first-order lag τ = 1/c (DOMAIN §2, "model fit"):
 //
 //	θ(t) = θ_0 + g_0·φ(t − t_mix) + A·R(t − t_mix)·[t > t_mix]
 //	φ(s) = (1 − e^{−Gs})/G
-//	R(s) = λ·C2(G, λ; s)               without lag
-//	R(s) = λ·c·C3(G, λ, c; s)          with lag
 //
-// where θ_0 and g_0 are the baseline temperature and drift at t_mix, A =
-// Q/ε the corrected temperature change, and C2, C3 the convolutions of two
-// and three decaying exponentials,
+// θ_0 and g_0 are the baseline temperature and drift at t_mix and A = Q/ε
+// is the corrected temperature change. Two release shapes are tried, and
+// the one with the smaller sum of squares kept:
+//
+//	first order, rate λ:          R(s) = λ·C2(G, λ; s)          (lag: λ·c·C3(G, λ, c; s))
+//	constant power for a time d:  R(s) = [Y(s) − Y(s − d)]/d,  Y(u) = φ(u)  (lag: φ(u) − C2(G, c; u)),  Y = 0 for u ≤ 0
+//
+// with C2 and C3 the convolutions of two and three decaying exponentials,
 //
 //	C2(a, b; s) = (e^{−as} − e^{−bs})/(b − a)
 //	C3(a, b, c; s) = [C2(a, b; s) − C2(b, c; s)]/(c − a)
 //
 // (the vessel integrates the release, the probe integrates the vessel).
-// Parameters: θ_0, g_0, G, A, ln λ, t_mix and, with lag, ln c. The lag
-// model is kept when it lowers the sum of squares significantly (F > 10 for
-// one extra parameter). Long records are averaged into at most about 6000
-// bins, weighted by their counts, which leaves the least-squares estimate
-// of a smooth model unchanged to second order in the bin width.
+// Parameters: θ_0, g_0, G, A, ln λ or ln d, t_mix and, with lag, ln c. The
+// lag model is kept when it lowers the sum of squares significantly (F > 10
+// for one extra parameter). Long records are averaged into bins weighted by
+// their counts — at most 1000 in each drift period and 2000 in the main
+// period, where a bin never spans more than a twentieth of the 63 %
+// response time — which leaves the fit of a smooth curve unchanged to
+// second order in the bin width.
+
+// modelShape is the release shape of the model.
+type modelShape int
+
+const (
+	modelFirstOrder modelShape = iota
+	modelPulse
+)
 
 // modelResult is the outcome of the model fit.
 type modelResult struct {
-	ok        bool
-	reason    string // why it failed or was not used
-	params    []float64
-	rise, u   float64
-	dof       int
-	sd        float64 // residual SD per reading
-	lag       bool
-	tau       float64 // s, with lag
-	lambda    float64 // 1/s
-	mix       float64 // fitted t_mix
-	g         float64 // fitted G
-	theta0    float64 // baseline at t_mix
-	uTheta0   float64
-	covT0A    float64 // cov(θ_0, A)
-	iters     int
-	nBins     int
-	curveFunc func(t float64) float64
+	ok      bool
+	reason  string // why it failed
+	shape   modelShape
+	params  []float64
+	rise, u float64
+	dof     int
+	sd      float64 // residual SD per reading
+	lag     bool
+	tau     float64 // probe lag (s), with lag
+	rate    float64 // λ (1/s) or 1/d
+	mix     float64 // fitted t_mix
+	g       float64 // fitted G
+	theta0  float64 // baseline at t_mix
+	uTheta0 float64
+	covT0A  float64 // cov(θ_0, A)
+	iters   int
+	nBins   int
 }
+
+// curve is the fitted model at t.
+func (m modelResult) curve(t float64) float64 { return modelEval(m.shape, t, m.params) }
 
 // modelC2 is C2(a, b; s), stable when a ≈ b.
 func modelC2(a, b, s float64) float64 {
@@ -331,18 +347,36 @@ func modelC3(a, b, c, s float64) float64 {
 }
 
 // modelEval is the model at t for parameters p.
-func modelEval(t float64, p []float64) float64 {
-	th0, g0, G, A, lam, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), p[5]
+func modelEval(shape modelShape, t float64, p []float64) float64 {
+	th0, g0, G, A, k, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), p[5]
 	v := th0 + g0*riseExpm1(G, t-tm)
-	if s := t - tm; s > 0 {
-		if len(p) > 6 {
-			c := math.Exp(p[6])
-			v += A * lam * c * modelC3(G, lam, c, s)
-		} else {
-			v += A * lam * modelC2(G, lam, s)
-		}
+	s := t - tm
+	if s <= 0 {
+		return v
 	}
-	return v
+	lag := len(p) > 6
+	c := 0.0
+	if lag {
+		c = math.Exp(p[6])
+	}
+	switch shape {
+	case modelPulse:
+		y := func(u float64) float64 {
+			if u <= 0 {
+				return 0
+			}
+			if lag {
+				return riseExpm1(G, u) - modelC2(G, c, u)
+			}
+			return riseExpm1(G, u)
+		}
+		return v + A*(y(s)-y(s-k))/k
+	default:
+		if lag {
+			return v + A*k*c*modelC3(G, k, c, s)
+		}
+		return v + A*k*modelC2(G, k, s)
+	}
 }
 
 // modelData is the (binned) record the model is fitted to.
@@ -350,8 +384,8 @@ type modelData struct {
 	t, y, sw []float64 // bin mean time, bin mean reading, √count
 }
 
-// modelBin averages readings into bins of size per, never across the
-// boundaries in cuts (indices where a new segment starts).
+// modelBin averages the readings of each segment [lo, hi) into at most
+// maxPoints bins of equal count, never across segments.
 func modelBin(t, y []float64, segments [][2]int, maxPoints []int) modelData {
 	var d modelData
 	for si, seg := range segments {
@@ -380,44 +414,74 @@ func modelBin(t, y []float64, segments [][2]int, maxPoints []int) modelData {
 	return d
 }
 
-// modelFit fits the model to the readings t, y (spikes excluded) between
-// the fore start and the after end. iMain and iPost are the indices where
-// the main and after periods begin; start holds θ_0, g_0, G, A, λ, t_mix.
-func modelFit(t, y []float64, iMain, iPost int, start [6]float64, infl float64) modelResult {
-	segs := [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}
-	d := modelBin(t, y, segs, []int{2000, 2000, 2000})
+// modelFit fits the model to the readings t, y (spikes excluded) from the
+// fore start to the after end. iMain and iPost are the indices where the
+// main and after periods begin; start holds θ_0, g_0, G, A, the 63 %
+// response time (s) and t_mix; dt is the sampling interval (s); infl the
+// autocorrelation inflation for the covariance.
+func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt, infl float64) modelResult {
+	resp := math.Max(start[4], dt)
+	mainMax := 2000
+	if dt > 0 && iPost > iMain {
+		mainMax = max(mainMax, int((t[iPost-1]-t[iMain])/(resp/20))+1)
+	}
+	d := modelBin(t, y, [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}, []int{1000, mainMax, 1000})
 	n := len(d.t)
 	yw := make([]float64, n)
 	for i := range yw {
 		yw[i] = d.sw[i] * d.y[i]
 	}
-	model := func(p []float64, out []float64) {
-		for i := range out {
-			out[i] = d.sw[i] * modelEval(d.t[i], p)
+	fitShape := func(shape modelShape, p0 []float64) (*fit.Nonlinear, error) {
+		model := func(p []float64, out []float64) {
+			for i := range out {
+				out[i] = d.sw[i] * modelEval(shape, d.t[i], p)
+			}
+		}
+		return fit.LevenbergMarquardtVector(model, n, yw, p0, nil)
+	}
+	base := []float64{start[0], start[1], start[2], start[3], 0, start[5]}
+	res := modelResult{nBins: n}
+	var best *fit.Nonlinear
+	var firstErr error
+	for _, shape := range []modelShape{modelFirstOrder, modelPulse} {
+		p0 := append([]float64(nil), base...)
+		if shape == modelFirstOrder {
+			p0[4] = math.Log(1 / resp)
+		} else {
+			p0[4] = math.Log(resp / (1 - math.Exp(-1)))
+		}
+		f, err := fitShape(shape, p0)
+		if err != nil {
+			if firstErr == nil {
+				firstErr = err
+			}
+			continue
+		}
+		if best == nil || f.SSR < best.SSR {
+			best, res.shape = f, shape
 		}
 	}
-	p0 := []float64{start[0], start[1], start[2], start[3], math.Log(start[4]), start[5]}
-	res := modelResult{nBins: n}
-	nl, err := fit.LevenbergMarquardtVector(model, n, yw, p0, nil)
-	if err != nil {
-		res.reason = modelWhy(err)
+	if best == nil {
+		res.reason = modelWhy(firstErr)
 		return res
 	}
-	best := nl
-	// With lag: split the fitted response time between release and probe.
-	lam := math.Exp(nl.Params[4])
-	p1 := append(append([]float64(nil), nl.Params...), math.Log(lam/0.3))
-	p1[4] = math.Log(lam / 0.7)
-	lg, err := fit.LevenbergMarquardtVector(model, n, yw, p1, nil)
-	if err == nil && lg.Cov != nil && lg.SSR < nl.SSR {
-		f := (nl.SSR - lg.SSR) / (lg.SSR / float64(lg.DoF))
-		if f > 10 {
+	// With lag: share the fitted response between release and probe.
+	p1 := append(append([]float64(nil), best.Params...), 0)
+	k := math.Exp(best.Params[4])
+	if res.shape == modelFirstOrder {
+		p1[4] = math.Log(k / 0.7)
+		p1[6] = math.Log(k / 0.3)
+	} else {
+		p1[6] = -math.Log(math.Max(dt/2, 0.05*k))
+	}
+	if lg, err := fitShape(res.shape, p1); err == nil && lg.SSR < best.SSR {
+		if f := (best.SSR - lg.SSR) / (lg.SSR / float64(lg.DoF)); f > 10 {
 			best = lg
 			res.lag = true
 		}
 	}
 	p := best.Params
-	if !(p[2] > -1) || math.IsNaN(p[3]) {
+	if math.IsNaN(p[3]) || !(p[2] > -1e-2) {
 		res.reason = fmt.Sprintf("the fitted cooling constant %.3g 1/s is not physical", p[2])
 		return res
 	}
@@ -430,18 +494,21 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, infl float64) 
 	res.theta0 = p[0]
 	res.dof = best.DoF
 	res.sd = best.ResidualSD
-	res.lambda = math.Exp(p[4])
 	res.mix = p[5]
 	res.g = p[2]
 	res.iters = best.Iterations
+	res.rate = math.Exp(p[4])
+	if res.shape == modelPulse {
+		res.rate = 1 / res.rate
+	}
 	if res.lag {
 		res.tau = math.Exp(-p[6])
-		// λ and 1/τ enter the response symmetrically; call the slower the release.
-		if res.tau > 1/res.lambda {
-			res.tau, res.lambda = 1/res.lambda, 1/res.tau
+		// λ and 1/τ enter a first-order response symmetrically; call the
+		// slower the release.
+		if res.shape == modelFirstOrder && res.tau > 1/res.rate {
+			res.tau, res.rate = 1/res.rate, 1/res.tau
 		}
 	}
-	res.curveFunc = func(t float64) float64 { return modelEval(t, res.params) }
 	return res
 }
 

@@ -379,7 +379,7 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 	}
 	rise := math.Abs(fit.Median(tail) - base(t[iD]))
 	iE := iD + 4
-	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < 0.3*rise {
+	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < hingeFrac*rise {
 		iE++
 	}
 	iE = min(iE, n-1)
@@ -427,6 +427,8 @@ func periodBaseline(t, y []float64) (func(float64) float64, float64, error) {
 
 // periodHinge is the sum of squares of r about 0 before tau and about the
 // best a·s + b·s² (a ≥ 0, s = t − tau) after it.
+var hingeFrac = 0.15
+
 func periodHinge(t, r []float64, tau float64) float64 {
 	var ss, s2, s3, s4, sr, s2r float64
 	for k := range t {
@@ -529,19 +531,19 @@ func periodEnd(d *riseData, b periodSeries, pk periodPeakInfo, pl *periodPlan, l
 	// t_c, about 4σ_e·τ_tail, shrunk below a tenth of the after period's
 	// noise on its mean.
 	tauTail := resp
-	var tx, ly []float64
-	for k := pk.p; k <= last && k >= 0; k++ {
-		v := pk.sign * e[k]
-		sd := math.Max(spread, pk.noise*pk.inv[k])
-		if v > 4*sd && v < 0.3*pk.excess {
-			tx = append(tx, b.t[k])
-			ly = append(ly, math.Log(v))
+	if last > pk.p {
+		// The departure falls from 30 % of the peak to the detection limit
+		// between tA and t_c: a two-point exponential decay time.
+		k30 := pk.p
+		for k30 < last && pk.sign*e[k30] > 0.3*pk.excess {
+			k30++
 		}
-	}
-	if len(tx) >= 4 {
-		if lf, err := fit.Line(tx, ly); err == nil && lf.Params[1] < 0 {
-			tauTail = -1 / lf.Params[1]
+		lim4 := 4 * math.Max(spread, pk.noise*pk.inv[last])
+		if ratio := 0.3 * pk.excess / lim4; ratio > 1.5 {
+			tauTail = (b.t[last] - b.t[k30]) / math.Log(ratio)
 		}
+	} else if last >= 0 {
+		tauTail = d.dt
 	}
 	tauTail = math.Min(math.Max(tauTail, d.dt), 3*resp)
 	sdE := spread

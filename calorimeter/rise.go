@@ -300,9 +300,9 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 			f   *driftFit
 			off int
 		}{{fore, iStart}, {after, iP}} {
-			z := fit.RobustZ(p.f.resid)
-			for k, v := range z {
-				if math.Abs(v) > lim.SpikeZ && math.Abs(p.f.resid[k]) > lim.SpikeZ*sigma {
+			centre, scale := riseRobust(p.f.resid)
+			for k, v := range p.f.resid {
+				if math.Abs(v-centre) > lim.SpikeZ*math.Max(scale, sigma) {
 					more = append(more, d.orig[p.off+k])
 				}
 			}
@@ -312,6 +312,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		}
 		excluded = append(excluded, more...)
 		slices.Sort(excluded)
+		excluded = slices.Compact(excluded)
 		nd := riseKeep(t, theta, excluded)
 		nd.sigma, nd.dt, nd.quantum = sigma, dt, quantum
 		d = nd
@@ -356,31 +357,45 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		gF[j] = [3]float64{grad[j][0], grad[j][1], grad[j][2]}
 		gP[j] = [3]float64{grad[j][3], grad[j][4], grad[j][5]}
 	}
-	fore.driftCov(gF, fore.sd, fore.rho, covF[:])
-	after.driftCov(gP, after.sd, after.rho, covP[:])
-	sdM := math.Sqrt((fore.sd*fore.sd + after.sd*after.sd) / 2)
+	// Noise SDs, never below the rounding error of one reading δ/(2√3).
+	qv := quantum * quantum / 12
+	sdF := math.Sqrt(math.Max(fore.sd*fore.sd, qv))
+	sdP := math.Sqrt(math.Max(after.sd*after.sd, qv))
+	sdM := math.Sqrt((sdF*sdF + sdP*sdP) / 2)
 	rhoM := (fore.rho + after.rho) / 2
+	fore.driftCov(gF, sdF, fore.rho, covF[:])
+	after.driftCov(gP, sdP, after.rho, covP[:])
 	riseMainCov(wMain, grad, sdM, rhoM, covM[:])
 	nuF := float64(fore.n-2) * (1 - fore.rho) / (1 + fore.rho)
 	nuP := float64(after.n-2) * (1 - after.rho) / (1 + after.rho)
 
-	// Type B components shared by every method.
-	var common []RiseUncertainty
-	stuck := quantum > 0 && math.Max(fore.sd, after.sd) < quantum/2
-	if stuck {
-		common = append(common, RiseUncertainty{"resolution", quantum / math.Sqrt(6), math.Inf(1)})
+	// The noise components of output j. With a detected resolution δ, the
+	// share δ²/12 of each period's noise variance is rounding: it is reported
+	// as the resolution component (type B), the rest as measured scatter.
+	noiseParts := func(j int) []RiseUncertainty {
+		v := func(c [outCount * outCount]float64) float64 { return math.Max(0, c[j*outCount+j]) }
+		share := func(sd float64) float64 {
+			if !(sd > 0) {
+				return 0
+			}
+			return math.Min(1, qv/(sd*sd))
+		}
+		vf, vp, vm := v(covF), v(covP), v(covM)
+		qf, qp, qm := share(sdF), share(sdP), share(sdM)
+		out := []RiseUncertainty{
+			{"fore-drift", math.Sqrt(vf * (1 - qf)), nuF},
+			{"after-drift", math.Sqrt(vp * (1 - qp)), nuP},
+			{"main-readings", math.Sqrt(vm * (1 - qm)), nuF + nuP},
+		}
+		if quantum > 0 {
+			out = append(out, RiseUncertainty{"resolution", math.Sqrt(vf*qf + vp*qp + vm*qm), math.Inf(1)})
+		}
+		return out
 	}
+	var common []RiseUncertainty
 	if opt.UTemperature > 0 {
 		common = append(common, RiseUncertainty{"probe-calibration",
 			opt.UTemperature * math.Sqrt(2*(1-opt.ProbeCorrelation)), math.Inf(1)})
-	}
-	noiseParts := func(j int) []RiseUncertainty {
-		v := func(c [outCount * outCount]float64) float64 { return math.Sqrt(math.Max(0, c[j*outCount+j])) }
-		return []RiseUncertainty{
-			{"fore-drift", v(covF), nuF},
-			{"after-drift", v(covP), nuP},
-			{"main-readings", v(covM), nuF + nuP},
-		}
 	}
 	parts := map[string][]RiseUncertainty{}
 	values := map[string]float64{
@@ -391,8 +406,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"line-curvature", math.Abs(mr.dick - mr.dickCurve), math.Inf(1)})
 	parts[MethodExtrapolation] = append(append(noiseParts(outExtrapolation), common...),
 		RiseUncertainty{"line-curvature", math.Abs(mr.extrap - mr.extrapCurve), math.Inf(1)},
-		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)},
-		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * pl.tmU, math.Inf(1)})
+		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)})
 
 	// T60, Tx and the response time from the main-period readings.
 	yNodes := append(append([]float64{mr.theta0}, d.y[iA:iB]...), mr.thetaN)
@@ -409,15 +423,23 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	// The model.
 	rhoPool := (fore.rho + after.rho) / 2
 	infl := math.Sqrt((1 + rhoPool) / (1 - rhoPool))
-	lam := 1 / math.Max(res.ResponseTime, dt/2)
 	g0 := fore.slope - mr.G*(mr.initCurve-fore.pairT)
 	mG := mr.G
 	if !(mG > 0) {
 		mG = 1e-6
 	}
 	mfit := modelFit(d.t[pl.iStart:pl.iEnd], d.y[pl.iStart:pl.iEnd], iA-pl.iStart, iB-pl.iStart,
-		[6]float64{mr.initCurve, g0, mG, mr.rp, lam, pl.tm}, infl)
+		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt, infl)
 	modelOK := mfit.ok && mfit.sd <= lim.MaxResidualRatio*sigma
+	if modelOK && pl.detected {
+		// The detected time is where the readings leave the fore drift; a
+		// lagging probe leaves it later than the process starts. The model's
+		// start says by how much.
+		res.MixTimeU = math.Hypot(pl.tmU, mfit.mix-pl.tm)
+		pl.tmU = res.MixTimeU
+	}
+	parts[MethodExtrapolation] = append(parts[MethodExtrapolation],
+		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * res.MixTimeU, math.Inf(1)})
 	if mfit.ok {
 		values[MethodModel] = mfit.rise
 		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) * (1 - rhoPool) / (1 + rhoPool)}}, common...)
@@ -562,7 +584,7 @@ func riseResiduals(n int, d *riseData, pl periodPlan, fore, after *driftFit, mfi
 		case tk >= pl.t2 && tk <= after.tEnd:
 			out[k] = theta[k] - cP.at(tk)
 		case tk > pl.t1 && tk < pl.t2 && mfit.ok:
-			out[k] = theta[k] - mfit.curveFunc(tk)
+			out[k] = theta[k] - mfit.curve(tk)
 		default:
 			out[k] = math.NaN()
 		}
@@ -702,7 +724,8 @@ func riseSpikes(y []float64, sigma, z float64) []int {
 
 // riseKeep returns the record without the excluded readings (sorted).
 func riseKeep(t, y []float64, excluded []int) *riseData {
-	d := &riseData{}
+	n := len(t) - len(excluded)
+	d := &riseData{t: make([]float64, 0, n), y: make([]float64, 0, n), orig: make([]int, 0, n)}
 	j := 0
 	for k := range t {
 		if j < len(excluded) && excluded[j] == k {
@@ -714,4 +737,15 @@ func riseKeep(t, y []float64, excluded []int) *riseData {
 		d.orig = append(d.orig, k)
 	}
 	return d
+}
+
+// riseRobust returns the median and 1.4826·MAD of v, from at most 20 000
+// evenly spread values (the robust z-score of fit.RobustZ at O(n) cost).
+func riseRobust(v []float64) (centre, scale float64) {
+	stride := max(1, len(v)/20000)
+	s := make([]float64, 0, len(v)/stride+1)
+	for k := 0; k < len(v); k += stride {
+		s = append(s, v[k])
+	}
+	return fit.Median(s), 1.4826 * fit.MAD(s)
 }
