@@ -210,6 +210,12 @@ func runLedgerChart(a *app, args []string) error {
 	if len(vals) < 2 {
 		return dataf("%s: %d %s row(s) with a %s value; a control chart needs at least 2", filepath.Base(path), len(vals), *kind, *quantity)
 	}
+	// Rows recorded within the hour (one batch) have no useful time axis: plot them in run order.
+	if pts[len(pts)-1].Time.Sub(pts[0].Time) < time.Hour {
+		for i := range pts {
+			pts[i].Time = time.Time{}
+		}
+	}
 	chart, err := calorimeter.IndividualsChart(vals)
 	if err != nil {
 		return dataErr(err)
