@@ -240,7 +240,7 @@ func (r *sampleResult) writeText(w io.Writer) error {
 	fmt.Fprintf(tw, "Heat capacity ε\t%s\t%s\n", units.Format(red.HeatCapacity, red.UHeatCapacity, "J/K"), red.HeatCapacityBasis)
 	fmt.Fprintf(tw, "Heat to the calorimeter q = ε·ΔT\t%s\t\n", units.Format(red.HeatReleased, red.UHeatReleased, "J"))
 	fmt.Fprintf(tw, "Sample\t%s g of %s, M = %.3f g/mol\t%s\n", strconv.FormatFloat(red.Sample.Mass, 'g', -1, 64), orDash(red.Sample.Formula), red.Sample.MolarMass,
-		fmt.Sprintf("u(m) = %s g", strconv.FormatFloat(red.Sample.UMass, 'g', -1, 64)))
+		fmt.Sprintf("u(m) = %s g%s", strconv.FormatFloat(red.Sample.UMass, 'g', -1, 64), r.uMassNote()))
 	fmt.Fprintf(tw, "Amount n\t%.5g mol\t\n", red.Amount)
 	if !math.IsNaN(red.Molality) {
 		fmt.Fprintf(tw, "Final molality\t%.4g mol/kg\t%.0f mol water per mol solute\n", red.Molality, red.WaterRatio)
@@ -262,6 +262,15 @@ func (r *sampleResult) writeText(w io.Writer) error {
 		fmt.Fprintf(w, "\nCaution: %s\n", c)
 	}
 	return nil
+}
+
+// uMassNote says when the balance uncertainty is the default one.
+func (r *sampleResult) uMassNote() string {
+	s := r.in.spec
+	if q, ok, _ := s.quantity("sample-mass"); (ok && q.HasU) || s.has("u-mass") {
+		return ""
+	}
+	return " (default; give --u-mass for your balance)"
 }
 
 func orDash(s string) string {
