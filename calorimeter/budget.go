@@ -10,6 +10,8 @@ import (
 	"text/tabwriter"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"calred/units"
 )
 
 // Distribution is the shape of the probability distribution assigned to an
@@ -449,22 +451,14 @@ func budgetTolerance(u float64) float64 {
 }
 
 // budgetRound formats an estimate x and its uncertainty u as GUM 7.2.6
-// recommends: u to two significant digits, x to the same decimal place
-// ("if y = 10.057 62 Ω with u_c(y) = 27 mΩ, y should be rounded to
-// 10.058 Ω"). u is rounded to the nearest, not up. A zero or non-finite u
-// leaves both at full precision. This is a local stand-in until the units
-// package provides its rounding.
+// recommends (units.Round): u to two significant digits, x to the same
+// decimal place. A zero u prints as "0".
 func budgetRound(x, u float64) (xs, us string) {
-	if !(u > 0) || math.IsInf(u, 1) {
-		return strconv.FormatFloat(x, 'g', -1, 64), strconv.FormatFloat(u, 'g', -1, 64)
+	xs, us = units.Round(x, u)
+	if us == "" {
+		us = strconv.FormatFloat(u, 'g', -1, 64)
 	}
-	l, c := budgetExponent(u)
-	prec := max(0, -l)
-	xr := budgetScale(math.Round(budgetScale(x, -l)), l)
-	if xr == 0 {
-		xr = 0 // no "-0"
-	}
-	return strconv.FormatFloat(xr, 'f', prec, 64), strconv.FormatFloat(budgetScale(c, l), 'f', prec, 64)
+	return xs, us
 }
 
 // budgetFormatDoF writes degrees of freedom: "∞" for a type B evaluation.
