@@ -11,6 +11,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"calred/units"
 )
 
 // celsiusOffset converts kelvin to degrees Celsius: t/°C = T/K − 273.15
@@ -310,14 +312,12 @@ func (f *thermoFigure) equalAreas() (left, right []xy) {
 }
 
 // plusMinus formats v ± u with u to two significant digits and v to the
-// same decimal place.
+// same decimal place (units.Format, GUM 7.2.6).
 func plusMinus(v, u float64, unit string) string {
 	if !finite(u) || u <= 0 {
 		return fmt.Sprintf("%.4f %s", v, unit)
 	}
-	d := 1 - int(math.Floor(math.Log10(u)))
-	d = min(max(d, 0), 9)
-	return fmt.Sprintf("%.*f ± %.*f %s", d, v, d, u, unit)
+	return units.Format(v, u, unit)
 }
 
 // formatTime formats a time in seconds in the display unit.
