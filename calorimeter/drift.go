@@ -30,10 +30,11 @@ import (
 //
 // holds exactly however curved the period is; the trapezoid θ̃_i ≈ (θ_i +
 // θ_{i+1})/2 errs by O((GΔt)²). T is DriftTemperature. Pairing b with the
-// plain mean of the readings instead is off by about (G·D)²/15 of the drift
-// for a period of length D, which matters in precise work (DOMAIN §2: "a
-// least-squares slope over a long, curved period is not the drift at the
-// period's mean temperature").
+// plain mean of the readings instead is off by (G·D)²/60 of the drift for a
+// period of length D (expand e^{−Gt} about the centre: b = g(θ_c)·(1 +
+// (GD)²/40), mean − θ∞ = (θ_c − θ∞)(1 + (GD)²/24)), which matters in precise
+// work (DOMAIN §2: "a least-squares slope over a long, curved period is not
+// the drift at the period's mean temperature").
 type Drift struct {
 	Slope           float64 `json:"slope_k_per_s"`
 	Intercept       float64 `json:"intercept_k"` // at t = 0 of the log

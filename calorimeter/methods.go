@@ -93,6 +93,25 @@ const (
 	outCount
 )
 
+// methodSetup builds the main period [t1, t2] from the readings strictly
+// inside it (t, y) and the two drift fits: the trapezoid nodes (t1, the
+// readings, t2), the weights w_k = (t_{k+1} − t_{k−1})/2 of the readings and
+// of the two end nodes, and the statistics.
+func methodSetup(t, y []float64, t1, t2, tm float64, fore, after *driftFit) (*methodGeom, methodStats, []float64, []float64) {
+	g := &methodGeom{fore: fore, after: after, t1: t1, t2: t2, tm: tm}
+	nodes := append(append([]float64{t1}, t...), t2)
+	w := make([]float64, len(t))
+	var S float64
+	for k := range t {
+		w[k] = (nodes[k+2] - nodes[k]) / 2
+		S += w[k] * y[k]
+	}
+	g.w0 = (nodes[1] - nodes[0]) / 2
+	g.wn = (nodes[len(nodes)-1] - nodes[len(nodes)-2]) / 2
+	st := methodStats{fore.mean, fore.slope, fore.pairT, after.mean, after.slope, after.pairT, S}
+	return g, st, w, nodes
+}
+
 // eval computes every closed-form method from the statistics.
 //
 // The drift pairs give the cooling constant and convergence temperature

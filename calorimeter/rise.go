@@ -332,19 +332,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 
 	// Main period: interior readings and trapezoid weights.
 	iA, iB := sortAfter(d.t, pl.t1), sort0(d.t, pl.t2)
-	geom := &methodGeom{fore: fore, after: after, t1: pl.t1, t2: pl.t2, tm: pl.tm}
-	nodes := append(append([]float64{pl.t1}, d.t[iA:iB]...), pl.t2)
-	wMain := make([]float64, iB-iA)
-	var S float64
-	for k := iA; k < iB; k++ {
-		j := k - iA + 1
-		w := (nodes[j+1] - nodes[j-1]) / 2
-		wMain[k-iA] = w
-		S += w * d.y[k]
-	}
-	geom.w0 = (nodes[1] - nodes[0]) / 2
-	geom.wn = (nodes[len(nodes)-1] - nodes[len(nodes)-2]) / 2
-	st := methodStats{fore.mean, fore.slope, fore.pairT, after.mean, after.slope, after.pairT, S}
+	geom, st, wMain, nodes := methodSetup(d.t[iA:iB], d.y[iA:iB], pl.t1, pl.t2, pl.tm, fore, after)
 	mr := geom.eval(st)
 	res.G, res.ThetaInf = mr.G, mr.thetaInf
 	grad := geom.methodGradient(st)
