@@ -44,7 +44,7 @@ func TestPfaundlerWorkedExample(t *testing.T) {
 	geom, st, _, _ := methodSetup(tt[11:16], y[11:16], 600, 960, 600, fore, after)
 	mr := geom.eval(st)
 	corr := mr.rp - (mr.thetaN - mr.theta0) // added to the observed change
-	if math.Abs(corr-0.048) > 0.0006 { // quoted to three decimals
+	if math.Abs(corr-0.048) > 0.0006 {      // quoted to three decimals
 		t.Errorf("correction %.5f K, want 0.048 K", corr)
 	}
 	// The compact form with the code's own end values: identical for even
@@ -154,8 +154,8 @@ func TestMethodEqualArea(t *testing.T) {
 		area float64 // ∫θ over [0, 10]
 		want float64
 	}{
-		{"step at 5 s", 5, 5},       // θ = 0 before, 1 after
-		{"step at 2 s", 8, 2},       // analytic: ∫ = 10 − t_step
+		{"step at 5 s", 5, 5}, // θ = 0 before, 1 after
+		{"step at 2 s", 8, 2}, // analytic: ∫ = 10 − t_step
 		{"outside the band", 11, math.NaN()},
 	}
 	for _, tc := range tests {
