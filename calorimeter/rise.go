@@ -237,7 +237,8 @@ type riseData struct {
 // against the Newtonian curves; extrapolation adds instant-release, the
 // equal-area minus mixing-time difference on the curves (DOMAIN §2: bias ≈
 // (r2 − r1)(t_x − t_mix)), and mixing-time, |r2 − r1|·MixTimeU. The model's
-// u comes from its fit covariance, inflated by √((1+ρ)/(1−ρ)). DoF is the
+// u comes from its fit covariance, inflated by √((1+ρ)/(1−ρ)) with ρ the
+// lag-1 autocorrelation of its residuals. DoF is the
 // Welch–Satterthwaite ν_eff = u⁴/Σ(u_i⁴/ν_i) (JCGM 100:2008, G.2).
 func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	if err := riseValidate(t, theta, &opt); err != nil {
@@ -409,15 +410,13 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	}
 
 	// The model.
-	rhoPool := (fore.rho + after.rho) / 2
-	infl := math.Sqrt((1 + rhoPool) / (1 - rhoPool))
 	g0 := fore.slope - mr.G*(mr.initCurve-fore.pairT)
 	mG := mr.G
 	if !(mG > 0) {
 		mG = 1e-6
 	}
 	mfit := modelFit(d.t[pl.iStart:pl.iEnd], d.y[pl.iStart:pl.iEnd], iA-pl.iStart, iB-pl.iStart,
-		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt, infl)
+		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt)
 	modelOK := mfit.ok && mfit.sd <= lim.MaxResidualRatio*sigma
 	if modelOK && pl.detected {
 		// The detected time is where the readings leave the fore drift; a
@@ -430,7 +429,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * res.MixTimeU, math.Inf(1)})
 	if mfit.ok {
 		values[MethodModel] = mfit.rise
-		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) * (1 - rhoPool) / (1 + rhoPool)}}, common...)
+		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) / (mfit.infl * mfit.infl)}}, common...)
 	}
 	if math.IsNaN(mr.dick) {
 		delete(values, MethodDickinson)
