@@ -338,9 +338,18 @@ func TestAnalyseRiseErrors(t *testing.T) {
 	}{
 		{"too few", good[:8], goodY[:8], RiseOptions{}, ErrRiseInput, "8 readings, need at least 10"},
 		{"lengths", good, goodY[:100], RiseOptions{}, ErrRiseInput, "times but"},
-		{"time goes back", func() []float64 { tt, _ := mod(func(t, y []float64) ([]float64, []float64) { t[50] = t[49]; return t, y }); return tt }(), goodY, RiseOptions{}, ErrRiseInput, "time does not increase at reading 50"},
-		{"NaN temperature", good, func() []float64 { _, y := mod(func(t, y []float64) ([]float64, []float64) { y[7] = math.NaN(); return t, y }); return y }(), RiseOptions{}, ErrRiseInput, "temperature of reading 7 is NaN"},
-		{"Celsius", good, func() []float64 { _, y := mod(func(t, y []float64) ([]float64, []float64) { y[3] = -5; return t, y }); return y }(), RiseOptions{}, ErrRiseInput, "give kelvin"},
+		{"time goes back", func() []float64 {
+			tt, _ := mod(func(t, y []float64) ([]float64, []float64) { t[50] = t[49]; return t, y })
+			return tt
+		}(), goodY, RiseOptions{}, ErrRiseInput, "time does not increase at reading 50"},
+		{"NaN temperature", good, func() []float64 {
+			_, y := mod(func(t, y []float64) ([]float64, []float64) { y[7] = math.NaN(); return t, y })
+			return y
+		}(), RiseOptions{}, ErrRiseInput, "temperature of reading 7 is NaN"},
+		{"Celsius", good, func() []float64 {
+			_, y := mod(func(t, y []float64) ([]float64, []float64) { y[3] = -5; return t, y })
+			return y
+		}(), RiseOptions{}, ErrRiseInput, "give kelvin"},
 		{"no process", flatT, flatY, RiseOptions{}, ErrNoProcess, "hint: give the mixing time"},
 		{"mixing time outside", good, goodY, RiseOptions{MixTime: 5000}, ErrRiseInput, "outside the log"},
 		{"unknown method", good, goodY, RiseOptions{Method: "bomb"}, ErrRiseInput, "unknown method"},
