@@ -326,8 +326,11 @@ func TestAnalyseRiseErrors(t *testing.T) {
 		flatT[k] = 5 * float64(k)
 		flatY[k] = 295 + 0.01*rng.NormFloat64()
 	}
-	mod := func(f func(t, y []float64) ([]float64, []float64)) ([]float64, []float64) {
-		return f(append([]float64(nil), good...), append([]float64(nil), goodY...))
+	// with returns a copy of v with v[k] = x.
+	with := func(v []float64, k int, x float64) []float64 {
+		c := append([]float64(nil), v...)
+		c[k] = x
+		return c
 	}
 	tests := []struct {
 		name   string
@@ -338,18 +341,9 @@ func TestAnalyseRiseErrors(t *testing.T) {
 	}{
 		{"too few", good[:8], goodY[:8], RiseOptions{}, ErrRiseInput, "8 readings, need at least 10"},
 		{"lengths", good, goodY[:100], RiseOptions{}, ErrRiseInput, "times but"},
-		{"time goes back", func() []float64 {
-			tt, _ := mod(func(t, y []float64) ([]float64, []float64) { t[50] = t[49]; return t, y })
-			return tt
-		}(), goodY, RiseOptions{}, ErrRiseInput, "time does not increase at reading 50"},
-		{"NaN temperature", good, func() []float64 {
-			_, y := mod(func(t, y []float64) ([]float64, []float64) { y[7] = math.NaN(); return t, y })
-			return y
-		}(), RiseOptions{}, ErrRiseInput, "temperature of reading 7 is NaN"},
-		{"Celsius", good, func() []float64 {
-			_, y := mod(func(t, y []float64) ([]float64, []float64) { y[3] = -5; return t, y })
-			return y
-		}(), RiseOptions{}, ErrRiseInput, "give kelvin"},
+		{"time goes back", with(good, 50, good[49]), goodY, RiseOptions{}, ErrRiseInput, "time does not increase at reading 50"},
+		{"NaN temperature", good, with(goodY, 7, math.NaN()), RiseOptions{}, ErrRiseInput, "temperature of reading 7 is NaN"},
+		{"Celsius", good, with(goodY, 3, -5), RiseOptions{}, ErrRiseInput, "give kelvin"},
 		{"no process", flatT, flatY, RiseOptions{}, ErrNoProcess, "hint: give the mixing time"},
 		{"mixing time outside", good, goodY, RiseOptions{MixTime: 5000}, ErrRiseInput, "outside the log"},
 		{"unknown method", good, goodY, RiseOptions{Method: "bomb"}, ErrRiseInput, "unknown method"},
