@@ -86,7 +86,8 @@ type periodPlan struct {
 //
 //	θ(t) = fore(t) + [t > τ]·(a·(t − τ) + b·(t − τ)²),   a ≥ 0 (in the direction of the rise),
 //
-// fitted over the departure and the first part of the rise (to 30 % of it),
+// fitted over the departure and the first part of the rise (to 15 % of it,
+// at least four readings past the departure and at most 40),
 // minimising the sum of squares over τ on a grid of Δt/5. The linear term
 // follows an instantaneous or first-order release, the quadratic a release
 // seen through a lagging probe or a heater. MixTimeU is the half-width of
@@ -379,7 +380,7 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 	}
 	rise := math.Abs(fit.Median(tail) - base(t[iD]))
 	iE := iD + 4
-	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < hingeFrac*rise {
+	for iE < n-1 && iE < iD+40 && pk.sign*(y[iE]-base(t[iE])) < 0.15*rise {
 		iE++
 	}
 	iE = min(iE, n-1)
@@ -427,8 +428,6 @@ func periodBaseline(t, y []float64) (func(float64) float64, float64, error) {
 
 // periodHinge is the sum of squares of r about 0 before tau and about the
 // best a·s + b·s² (a ≥ 0, s = t − tau) after it.
-var hingeFrac = 0.15
-
 func periodHinge(t, r []float64, tau float64) float64 {
 	var ss, s2, s3, s4, sr, s2r float64
 	for k := range t {

@@ -69,8 +69,14 @@ func (v riseNum) MarshalJSON() ([]byte, error) { return []byte(riseJSONNumber(fl
 // change.
 type Rise struct {
 	Points      int
-	MixTime     float64 // s
-	MixTimeU    float64 // how sure the detection is (s); 0 when given
+	// MixTime is the start of the process (s): as given, or detected where
+	// the readings leave the fore drift (periodDetect). MixTimeU says how
+	// sure the detection is (s; 0 when given): the profile-likelihood half
+	// width of the onset, combined, when the model fit is trusted, with the
+	// difference from the model's own start — a lagging probe leaves the
+	// fore drift later than the process starts.
+	MixTime     float64
+	MixTimeU    float64
 	MixDetected bool
 	Periods     struct {
 		Pre  Period `json:"pre"`
@@ -254,7 +260,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		sigma = math.Max(sigma, quantum/math.Sqrt(12))
 	}
 	dt := riseMedianStep(t)
-	excluded := riseSpikes(theta, sigma, lim.SpikeZ)
+	excluded := riseSpikes(t, theta, sigma, lim.SpikeZ)
 	d := riseKeep(t, theta, excluded)
 	d.sigma, d.dt, d.quantum = sigma, dt, quantum
 
@@ -690,19 +696,34 @@ func riseMedianStep(t []float64) float64 {
 	return fit.Median(d)
 }
 
-// riseSpikes finds single-reading spikes: a reading that is a local
-// extreme, more than z·σ·√2 from both neighbours (the difference of two
-// readings has SD σ√2), while its neighbours agree with each other to
-// within that. A monotonic rise, however fast, has no such reading.
-func riseSpikes(y []float64, sigma, z float64) []int {
-	var out []int
-	lim := z * sigma * math.Sqrt2
-	if !(lim > 0) {
+// riseSpikes finds single-reading spikes from the departures of each
+// reading from the line through its neighbours,
+//
+//	d_k = θ_k − (a·θ_{k−1} + b·θ_{k+1}),   a = (t_{k+1} − t_k)/(t_{k+1} − t_{k−1}),  b = 1 − a,
+//
+// whose noise SD is σ√(1 + a² + b²). A spike S at k gives d_k ≈ S and
+// d_{k±1} ≈ −S/2; a smooth peak or the kink at the start of a release gives
+// neighbours of the same sign or near zero. A reading is a spike when |d_k|
+// exceeds z noise SDs and both neighbouring departures have the opposite
+// sign and at least a quarter of its size. A rise, however fast, has no
+// such reading.
+func riseSpikes(t, y []float64, sigma, z float64) []int {
+	n := len(y)
+	if !(sigma > 0) || n < 5 {
 		return nil
 	}
-	for k := 1; k+1 < len(y); k++ {
-		a, b := y[k]-y[k-1], y[k]-y[k+1]
-		if a*b > 0 && math.Min(math.Abs(a), math.Abs(b)) > lim && math.Abs(y[k+1]-y[k-1]) < lim {
+	d := make([]float64, n)
+	lim := make([]float64, n)
+	for k := 1; k < n-1; k++ {
+		a := (t[k+1] - t[k]) / (t[k+1] - t[k-1])
+		b := 1 - a
+		d[k] = y[k] - (a*y[k-1] + b*y[k+1])
+		lim[k] = z * sigma * math.Sqrt(1+a*a+b*b)
+	}
+	var out []int
+	for k := 2; k < n-2; k++ {
+		if math.Abs(d[k]) > lim[k] && d[k-1]*d[k] < 0 && d[k+1]*d[k] < 0 &&
+			math.Abs(d[k-1]) > math.Abs(d[k])/4 && math.Abs(d[k+1]) > math.Abs(d[k])/4 {
 			out = append(out, k)
 		}
 	}
