@@ -68,7 +68,7 @@ func (v riseNum) MarshalJSON() ([]byte, error) { return []byte(riseJSONNumber(fl
 // Rise is the reduction of one temperature log to a corrected temperature
 // change.
 type Rise struct {
-	Points      int
+	Points int
 	// MixTime is the start of the process (s): as given, or detected where
 	// the readings leave the fore drift (periodDetect). MixTimeU says how
 	// sure the detection is (s; 0 when given): the profile-likelihood half
