@@ -106,7 +106,7 @@ type driftFit struct {
 func newDriftFit(t, y []float64) (*driftFit, error) {
 	n := len(t)
 	if n < 3 {
-		return nil, fmt.Errorf("drift fit: %w: %d readings, need at least 3", errTooFew, n)
+		return nil, fmt.Errorf("drift fit: %w: %d readings, need at least 3", ErrTooFewReadings, n)
 	}
 	f := &driftFit{t: t, y: y, n: n, tStart: t[0], tEnd: t[n-1]}
 	var st, sy float64
@@ -125,7 +125,7 @@ func newDriftFit(t, y []float64) (*driftFit, error) {
 		f.h = math.Max(f.h, math.Abs(d))
 	}
 	if !(f.stt > 0) {
-		return nil, fmt.Errorf("drift fit: %w: all %d readings at %g s", errTooFew, n, t[0])
+		return nil, fmt.Errorf("drift fit: %w: all %d readings at %g s", ErrTooFewReadings, n, t[0])
 	}
 	f.mean = y0 + cy/float64(n)
 	f.slope = sty / f.stt
@@ -352,5 +352,6 @@ func (f *driftFit) driftCov(grad [][3]float64, sd, rho float64, cov []float64) {
 	}
 }
 
-// errTooFew marks input with too few readings for what was asked.
-var errTooFew = errors.New("too few readings")
+// ErrTooFewReadings is wrapped by AnalyseRise when a period holds too few
+// readings for what it must show.
+var ErrTooFewReadings = errors.New("too few readings")

@@ -293,7 +293,8 @@ func (g *methodGeom) methodGradient(s methodStats) [outCount][methodStatCount]fl
 //	C3(a, b, c; s) = [C2(a, b; s) − C2(b, c; s)]/(c − a)
 //
 // (the vessel integrates the release, the probe integrates the vessel).
-// Parameters: θ_0, g_0, G, A, ln λ or ln d, t_mix and, with lag, ln c. The
+// Parameters: θ_0, g_0, G, A, ln λ or ln d, t_mix (about the detected
+// mixing time, in units of the response time) and, with lag, ln c. The
 // lag model is kept when it lowers the sum of squares significantly (F > 10
 // for one extra parameter). Records are averaged into bins weighted by
 // their counts — at most 100 in each drift period and 2000 in the main
@@ -329,10 +330,14 @@ type modelResult struct {
 	iters   int
 	nBins   int
 	infl    float64 // autocorrelation inflation applied to the covariance
+	tRef    float64 // reference time of the fit (s)
+	tScale  float64 // scale of the t_mix parameter (s)
 }
 
 // curve is the fitted model at t.
-func (m modelResult) curve(t float64) float64 { return modelEval(m.shape, t, m.params) }
+func (m modelResult) curve(t float64) float64 {
+	return modelEval(m.shape, t-m.tRef, m.params, m.tScale)
+}
 
 // modelC2 is C2(a, b; s), stable when a ≈ b.
 func modelC2(a, b, s float64) float64 {
@@ -366,9 +371,13 @@ func modelC3(a, b, c, s float64) float64 {
 	return (modelC2(x, y, s) - modelC2(y, z, s)) / (z - x)
 }
 
-// modelEval is the model at t for parameters p.
-func modelEval(shape modelShape, t float64, p []float64) float64 {
-	th0, g0, G, A, k, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), p[5]
+// modelEval is the model at u = t − t_ref for parameters p, where p[5] =
+// 1 + (t_mix − t_ref)/scale: working about a reference time with a
+// parameter of order 1 keeps the numeric Jacobian's step (relative to the
+// parameter) well sized whatever the clock.
+func modelEval(shape modelShape, u float64, p []float64, scale float64) float64 {
+	th0, g0, G, A, k, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), (p[5]-1)*scale
+	t := u
 	v := th0 + g0*riseExpm1(G, t-tm)
 	s := t - tm
 	if s <= 0 {
@@ -446,6 +455,10 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt float64) mo
 	}
 	d := modelBin(t, y, [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}, []int{modelDriftBins, mainMax, modelDriftBins})
 	n := len(d.t)
+	tRef, scale := start[5], resp
+	for i := range d.t {
+		d.t[i] -= tRef
+	}
 	yw := make([]float64, n)
 	for i := range yw {
 		yw[i] = d.sw[i] * d.y[i]
@@ -453,13 +466,13 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt float64) mo
 	fitShape := func(shape modelShape, p0 []float64) (*fit.Nonlinear, error) {
 		model := func(p []float64, out []float64) {
 			for i := range out {
-				out[i] = d.sw[i] * modelEval(shape, d.t[i], p)
+				out[i] = d.sw[i] * modelEval(shape, d.t[i], p, scale)
 			}
 		}
 		return fit.LevenbergMarquardtVector(model, n, yw, p0, &modelLM)
 	}
-	base := []float64{start[0], start[1], start[2], start[3], 0, start[5]}
-	res := modelResult{nBins: n}
+	base := []float64{start[0], start[1], start[2], start[3], 0, 1}
+	res := modelResult{nBins: n, tRef: tRef, tScale: scale}
 	var best *fit.Nonlinear
 	var firstErr error
 	for _, shape := range []modelShape{modelFirstOrder, modelPulse} {
@@ -519,7 +532,7 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt float64) mo
 	res.theta0 = p[0]
 	res.dof = best.DoF
 	res.sd = best.ResidualSD
-	res.mix = p[5]
+	res.mix = tRef + (p[5]-1)*scale
 	res.g = p[2]
 	res.iters = best.Iterations
 	res.rate = math.Exp(p[4])

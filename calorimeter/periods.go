@@ -145,7 +145,7 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 	}
 	if pl.iF-pl.iStart < 3 {
 		return pl, fmt.Errorf("fore period: %w: %d readings before the mixing time %.4g s, need at least 3",
-			errTooFew, pl.iF-pl.iStart, pl.tm)
+			ErrTooFewReadings, pl.iF-pl.iStart, pl.tm)
 	}
 
 	// After period.
@@ -161,7 +161,7 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 	}
 	if pl.iEnd-pl.iP < 3 {
 		return pl, fmt.Errorf("after period: %w: %d readings after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
-			errTooFew, pl.iEnd-pl.iP, pl.t2)
+			ErrTooFewReadings, pl.iEnd-pl.iP, pl.t2)
 	}
 	pl.iM = pl.iP
 	if !(pl.t1 < pl.t2) {
@@ -343,7 +343,7 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 	}
 	if iF-iStart < 3 {
 		return 0, 0, fmt.Errorf("fore period: %w: the process starts near %.4g s, leaving %d readings before it",
-			errTooFew, t[min(iF, len(t)-1)], iF-iStart)
+			ErrTooFewReadings, t[min(iF, len(t)-1)], iF-iStart)
 	}
 	base, sd, err := periodBaseline(t[iStart:iF], y[iStart:iF])
 	if err != nil {

@@ -137,7 +137,7 @@ type Rise struct {
 // contract (mix_time_s, periods, drift.pre/post, methods, method,
 // delta_t_k, u_delta_t_k, checks …); numbers that are not finite are null
 // and the per-reading residuals are left out.
-func (r *Rise) MarshalJSON() ([]byte, error) {
+func (r Rise) MarshalJSON() ([]byte, error) {
 	nums := func(m map[string]float64) map[string]riseNum {
 		out := make(map[string]riseNum, len(m))
 		for k, v := range m {
@@ -184,6 +184,8 @@ func (r *Rise) MarshalJSON() ([]byte, error) {
 
 // ErrRiseInput is wrapped by AnalyseRise errors about its input (too few
 // readings, times not increasing, values not finite, options out of range).
+// Every AnalyseRise error is about the data: it wraps ErrRiseInput,
+// ErrTooFewReadings (a period too short to fit) or ErrNoProcess.
 var ErrRiseInput = errors.New("bad temperature log")
 
 // riseMinPoints is the fewest readings AnalyseRise accepts: three for each
@@ -401,7 +403,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"line-curvature", math.Abs(mr.dick - mr.dickCurve), math.Inf(1)})
 	parts[MethodExtrapolation] = append(append(noiseParts(outExtrapolation), common...),
 		RiseUncertainty{"line-curvature", math.Abs(mr.extrap - mr.extrapCurve), math.Inf(1)},
-		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)})
+		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - riseFinite(mr.dickCurve, mr.rp)), math.Inf(1)})
 
 	// T60, Tx and the response time from the main-period readings.
 	yNodes := append(append([]float64{mr.theta0}, d.y[iA:iB]...), mr.thetaN)
@@ -474,7 +476,11 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		}
 	default:
 		if _, ok := values[method]; !ok {
-			return nil, fmt.Errorf("method %s: not available for this run: %s", method, cc.modelWhy())
+			why := cc.modelWhy()
+			if method == MethodDickinson {
+				why = "the readings leave the band between the fore and after lines, so no equal-area time exists"
+			}
+			return nil, fmt.Errorf("method %s: not available for this run: %s", method, why)
 		}
 		res.MethodReason = "chosen by the caller"
 	}
@@ -546,6 +552,14 @@ func riseMainCov(w []float64, grad [outCount][methodStatCount]float64, sd, rho f
 		}
 		sn = s
 	}
+}
+
+// riseFinite returns v, or alt when v is NaN.
+func riseFinite(v, alt float64) float64 {
+	if math.IsNaN(v) {
+		return alt
+	}
+	return v
 }
 
 // riseCombine returns the root sum of squares of the components and the

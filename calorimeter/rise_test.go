@@ -350,7 +350,7 @@ func TestAnalyseRiseErrors(t *testing.T) {
 		{"reversed period", good, goodY, RiseOptions{Pre: &Period{200, 100}}, ErrRiseInput, "start < end"},
 		{"fore after post", good, goodY, RiseOptions{Pre: &Period{0, 800}, Post: &Period{700, 1200}}, ErrRiseInput, "not before"},
 		{"negative u_T", good, goodY, RiseOptions{UTemperature: -1}, ErrRiseInput, "probe calibration"},
-		{"fore too short", good, goodY, RiseOptions{MixTime: 8}, errTooFew, "fore period"},
+		{"fore too short", good, goodY, RiseOptions{MixTime: 8}, ErrTooFewReadings, "fore period"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -376,9 +376,12 @@ func TestRiseJSON(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := json.Marshal(r)
+	b, err := json.Marshal(*r) // the value marshals as the pointer does
 	if err != nil {
 		t.Fatal(err)
+	}
+	if bp, err := json.Marshal(r); err != nil || string(bp) != string(b) {
+		t.Errorf("pointer and value JSON differ (%v)", err)
 	}
 	var m map[string]any
 	if err := json.Unmarshal(b, &m); err != nil {
@@ -458,5 +461,71 @@ func BenchmarkAnalyseRise(b *testing.B) {
 		if _, err := AnalyseRise(tt, th, RiseOptions{}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestPartialOverrides gives one of mixing time, fore or after period and
+// lets the rest be detected.
+func TestPartialOverrides(t *testing.T) {
+	tt, th, truth := cupRun(12).Run()
+	tests := []struct {
+		name  string
+		opt   RiseOptions
+		check func(t *testing.T, r *Rise)
+	}{
+		{"mixing time", RiseOptions{MixTime: 298}, func(t *testing.T, r *Rise) {
+			if r.MixTime != 298 || r.MixDetected || r.Periods.Main.Start > 298 {
+				t.Errorf("mixing time %g (detected %v), main %v", r.MixTime, r.MixDetected, r.Periods.Main)
+			}
+		}},
+		{"fore period", RiseOptions{Pre: &Period{50, 280}}, func(t *testing.T, r *Rise) {
+			if r.Periods.Pre != (Period{50, 280}) || !r.MixDetected || math.Abs(r.MixTime-300) > 10 {
+				t.Errorf("pre %v, mixing time %g (detected %v)", r.Periods.Pre, r.MixTime, r.MixDetected)
+			}
+		}},
+		{"after period", RiseOptions{Post: &Period{650, 1100}}, func(t *testing.T, r *Rise) {
+			if r.Periods.Post != (Period{650, 1100}) || r.Periods.Main.End != 650 || math.Abs(r.MixTime-300) > 10 {
+				t.Errorf("post %v, main %v, mixing time %g", r.Periods.Post, r.Periods.Main, r.MixTime)
+			}
+		}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			r, err := AnalyseRise(tt, th, tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			tc.check(t, r)
+			if math.Abs(r.DeltaT-truth) > 3*r.UDeltaT {
+				t.Errorf("ΔT %g K, truth %g K, u %g K", r.DeltaT, truth, r.UDeltaT)
+			}
+		})
+	}
+}
+
+// TestTimeOffset: clock times far from zero give the same result (the fits
+// centre time, STYLE.md).
+func TestTimeOffset(t *testing.T) {
+	tt, th, _ := precisionRun(13).Run()
+	r0, err := AnalyseRise(tt, th, RiseOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	shifted := make([]float64, len(tt))
+	for k := range tt {
+		shifted[k] = tt[k] + 1.7e9 // seconds since 1970
+	}
+	r1, err := AnalyseRise(shifted, th, RiseOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 1.7e9 s carries about 2e-7 s of rounding per time.
+	for _, m := range methodNames {
+		if d := r1.Methods[m] - r0.Methods[m]; math.Abs(d) > 1e-3*r0.MethodU[m] {
+			t.Errorf("%s: %.9f K shifted, %.9f K at zero", m, r1.Methods[m], r0.Methods[m])
+		}
+	}
+	if math.Abs(r1.MixTime-1.7e9-r0.MixTime) > 1e-3 || math.Abs(r1.UDeltaT-r0.UDeltaT) > 1e-3*r0.UDeltaT {
+		t.Errorf("mixing time %f vs %f, u %g vs %g", r1.MixTime-1.7e9, r0.MixTime, r1.UDeltaT, r0.UDeltaT)
 	}
 }
