@@ -91,7 +91,7 @@ var ErrNoConvergence = errors.New("no convergence")
 // Nonlinear is the result of a nonlinear least-squares fit.
 type Nonlinear struct {
 	Params []float64
-	// Cov = s²·(JᵀJ)⁻¹ at the solution; nil when Status is Singular.
+	// Cov = s²·(JᵀJ)⁻¹ at the solution; nil unless Status.Converged().
 	Cov *mat.SymDense
 	// ResidualSD s = √(SSR/DoF).
 	ResidualSD float64

@@ -51,7 +51,7 @@ func MAD(v []float64) float64 {
 //
 //	z_i = (v_i − median(v)) / (1.4826·MAD)
 //
-// When MAD = 0 (more than half the values equal) the scale is instead
+// When MAD = 0 (half or more of the values equal the median) the scale is instead
 // 1.2533·mean_i |v_i − median(v)| (Iglewicz & Hoaglin 1993); when that is
 // zero too, all values are equal and every z is 0.
 func RobustZ(v []float64) []float64 {
