@@ -151,14 +151,6 @@ func newDriftFit(t, y []float64) (*driftFit, error) {
 	return f, nil
 }
 
-// line is the least-squares line at t.
-func (f *driftFit) line(t float64) float64 { return f.mean + f.slope*(t-f.c) }
-
-// lineIntegral is ∫_a^b line(t) dt.
-func (f *driftFit) lineIntegral(a, b float64) float64 {
-	return f.mean*(b-a) + f.slope*((b-f.c)*(b-f.c)-(a-f.c)*(a-f.c))/2
-}
-
 // riseCurve is the exact Newtonian temperature curve through a drift
 // period,
 //

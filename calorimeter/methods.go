@@ -41,10 +41,7 @@ type methodStats struct {
 // methodStatCount is the number of fields of methodStats.
 const methodStatCount = 7
 
-func (s methodStats) get(i int) float64 {
-	return [...]float64{s.mF, s.bF, s.TF, s.mP, s.bP, s.TP, s.S}[i]
-}
-
+// add adds d to the i-th statistic (in field order).
 func (s *methodStats) add(i int, d float64) {
 	switch i {
 	case 0:

@@ -17,9 +17,6 @@ type Period struct {
 	Start, End float64
 }
 
-// Duration is End − Start (s).
-func (p Period) Duration() float64 { return p.End - p.Start }
-
 // MarshalJSON writes [start, end].
 func (p Period) MarshalJSON() ([]byte, error) {
 	return []byte("[" + riseJSONNumber(p.Start) + "," + riseJSONNumber(p.End) + "]"), nil
@@ -52,16 +49,12 @@ var ErrNoProcess = errors.New("no process found")
 
 // periodPlan is the outcome of period detection.
 type periodPlan struct {
-	tm, tmU     float64 // mixing time and how sure its detection is (s)
-	detected    bool    // tm was detected
-	iF          int     // readings [0, iF) form the fore period
-	iM          int     // readings [iF, iM) lie inside the main period
-	iP, iEnd    int     // readings [iP, iEnd) form the after period
-	iStart      int     // first reading of the fore period
-	t1, t2      float64 // main period [t1, t2]
-	tResp       float64 // provisional 63 % response time t63 − t_mix (s)
-	endDetected bool
-	hw          int // half-window of the derivative used
+	tm, tmU    float64 // mixing time and how sure its detection is (s)
+	detected   bool    // tm was detected
+	iStart, iF int     // readings [iStart, iF) form the fore period
+	iP, iEnd   int     // readings [iP, iEnd) form the after period
+	t1, t2     float64 // main period [t1, t2]
+	tResp      float64 // provisional 63 % response time t63 − t_mix (s)
 }
 
 // Period detection (DOMAIN §2, "period detection").
@@ -96,11 +89,23 @@ type periodPlan struct {
 //
 // End of the main period: with the fore pair and a provisional after pair
 // (the last 40 % of the record after t_mix) the drift g(θ) = g_i − G(θ −
-// T_i) is known; the main period ends where the local slope returns for
-// good to g(θ) — the last departure of more than 4 noise SDs, counted from
-// the end of the log — plus twice the provisional 63 % response time, so
-// that a release tail below the noise is left out of the after period
-// (a tail of a·e^{−λt} shrinks by e^{−2} over two time constants).
+// T_i) is known, and the departure e = slope − g(θ) of the local slope from
+// it has noise σ_e, the larger of σ/√Σ(t − t̄)² and the robust spread of e
+// in the provisional after period. Counted back from the end of the log,
+// the last place where e exceeds 4σ_e in the direction of the process in
+// two neighbouring windows marks t_c, the end of the visible release. The
+// tail below that limit still carries a heat of about 4σ_e·τ_tail, where
+// τ_tail is the time e takes to fall from 30 % of its peak to 4σ_e over the
+// logarithm of that ratio (bounded by Δt and three 63 % response times: a
+// first-order release gives 1/λ, a heater the probe lag). The main period
+// ends at
+//
+//	t2 = t_c + max(2τ_tail, τ_tail·ln(4σ_e·τ_tail/ε)),   ε = σ/(10√n_after),
+//
+// when that tail has fallen below a tenth of the noise on the after
+// period's mean — a tail a·e^{−t/τ} shrinks by e^{−m} over m time
+// constants. The after period keeps at least a quarter of the record after
+// t_mix (and MinAfterS) unless t_c + 2τ_tail itself reaches further.
 func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, error) {
 	var pl periodPlan
 	t, y := d.t, d.y
@@ -119,7 +124,6 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 	if err != nil && math.IsNaN(opt.MixTime) {
 		return pl, fmt.Errorf("%w (hint: give the mixing time)", err)
 	}
-	pl.hw = peak.hw
 
 	// Mixing time.
 	switch {
@@ -157,13 +161,11 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		if err := periodEnd(d, bins, peak, &pl, lim); err != nil {
 			return pl, err
 		}
-		pl.endDetected = true
 	}
 	if pl.iEnd-pl.iP < 3 {
 		return pl, fmt.Errorf("after period: %w: %d readings after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
 			ErrTooFewReadings, pl.iEnd-pl.iP, pl.t2)
 	}
-	pl.iM = pl.iP
 	if !(pl.t1 < pl.t2) {
 		return pl, fmt.Errorf("main period: starts at %.4g s but ends at %.4g s", pl.t1, pl.t2)
 	}
@@ -190,7 +192,6 @@ func sortAfter(t []float64, v float64) int {
 type periodSeries struct {
 	t, y   []float64
 	lo, hi []int // raw indices [lo, hi) of each bin
-	per    int
 }
 
 // periodBins averages t, y (raw indices starting at off) into at most about
@@ -201,7 +202,7 @@ func periodBins(t, y []float64, off int) periodSeries {
 	if n > 20000 {
 		per = (n + 9999) / 10000
 	}
-	s := periodSeries{per: per}
+	var s periodSeries
 	for k := 0; k < n; k += per {
 		e := min(n, k+per)
 		var st, sy float64

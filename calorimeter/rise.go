@@ -209,9 +209,10 @@ type riseData struct {
 // and the after period (periodDetect says how, unless RiseOptions fix
 // them). Each drift period is fitted by a straight line and its honest drift
 // pair (see Drift); the pairs give G and θ∞ and the Newtonian curve of each
-// period. Readings that are isolated extremes more than SpikeZ noise SDs
-// from both neighbours, or drift-period readings whose robust z-score of
-// the residual exceeds SpikeZ, are excluded as spikes and listed.
+// period. Single readings that stand more than SpikeZ noise SDs off the
+// line through their neighbours (riseSpikes), and drift-period readings
+// whose robust z-score of the residual exceeds SpikeZ, are excluded as
+// spikes and listed.
 //
 // The methods (methodGeom.eval and modelFit give the formulas) are
 // Regnault–Pfaundler, Dickinson, extrapolation to the mixing time and the
@@ -237,10 +238,12 @@ type riseData struct {
 // autocorrelated noise is weighted exactly rather than by a blanket factor.
 // Components: fore-drift and after-drift (ν = n − 2, reduced by
 // (1 − ρ)/(1 + ρ)), main-readings (σ and ρ pooled from the two drift
-// periods), resolution δ/(2√3) for each end temperature when the readings
-// sit on a resolution step coarser than twice their noise (otherwise the
-// rounding is already in the measured scatter), probe-calibration
-// UTemperature·√(2(1 − r)) when UTemperature > 0. Dickinson and
+// periods); with a detected resolution δ each period's noise is taken as at
+// least δ/(2√3) and the share δ²/12 of its variance is reported as the
+// resolution component (type B) — rounding that the measured scatter and
+// its autocorrelation already show, so nothing is counted twice;
+// probe-calibration UTemperature·√(2(1 − r)) when UTemperature > 0 (r =
+// ProbeCorrelation). Dickinson and
 // extrapolation add line-curvature: the difference the straight lines make
 // against the Newtonian curves; extrapolation adds instant-release, the
 // equal-area minus mixing-time difference on the curves (DOMAIN §2: bias ≈
