@@ -487,7 +487,7 @@ func periodEnd(d *riseData, b periodSeries, pk periodPeakInfo, pl *periodPlan, l
 	}
 	lF := methodLine{fore.mean, fore.slope, fore.c}
 	lP := methodLine{after.mean, after.slope, after.c}
-	iTm := sortAfter(t, pl.tm)
+	iTm := min(sortAfter(t, pl.tm), iA)
 	t63 := methodFraction(t[iTm:iA], y[iTm:iA], lF, lP, 1-math.Exp(-1))
 	resp := t63 - pl.tm
 	if math.IsNaN(resp) || resp < d.dt {
@@ -580,7 +580,7 @@ func periodResponse(d *riseData, pl periodPlan) float64 {
 	}
 	lF := methodLine{fore.mean, fore.slope, fore.c}
 	lP := methodLine{after.mean, after.slope, after.c}
-	iTm := sortAfter(t, pl.tm)
+	iTm := min(sortAfter(t, pl.tm), pl.iP)
 	t63 := methodFraction(t[iTm:pl.iP], y[iTm:pl.iP], lF, lP, 1-math.Exp(-1))
 	if math.IsNaN(t63) || t63-pl.tm < d.dt {
 		return d.dt

@@ -297,9 +297,14 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		if after, err = newDriftFit(d.t[iP:iEnd], d.y[iP:iEnd]); err != nil {
 			return nil, fmt.Errorf("after period: %w", err)
 		}
+		// The cooling constant needs the two drift temperatures apart by
+		// more than their noise (and the resolution and float rounding).
 		dT := after.pairT - fore.pairT
-		if !(math.Abs(dT) > 0) {
-			return nil, fmt.Errorf("drift: %w: the fore and after periods have the same temperature %.6g K", ErrNoProcess, fore.pairT)
+		need := math.Max(5*sigma*math.Sqrt(1/float64(fore.n)+1/float64(after.n)),
+			math.Max(quantum, 1e-9*math.Abs(fore.pairT)))
+		if !(math.Abs(dT) > need) {
+			return nil, fmt.Errorf("drift: %w: the after period is only %s from the fore period, within the %s its noise allows (hint: check the mixing time and periods)",
+				ErrNoProcess, checkK(dT), checkK(need))
 		}
 		G = (fore.slope - after.slope) / dT
 		fore.finish(G)
