@@ -127,8 +127,6 @@ type checkContext struct {
 	modelOK     bool
 	sigma, dt   float64
 	quantum     float64
-	d           *riseData
-	pl          periodPlan
 }
 
 // checkK formats a temperature (difference) with a unit that suits it.

@@ -30,10 +30,11 @@ import (
 //
 // holds exactly however curved the period is; the trapezoid θ̃_i ≈ (θ_i +
 // θ_{i+1})/2 errs by O((GΔt)²). T is DriftTemperature. Pairing b with the
-// plain mean of the readings instead is off by about (G·D)²/15 of the drift
-// for a period of length D, which matters in precise work (DOMAIN §2: "a
-// least-squares slope over a long, curved period is not the drift at the
-// period's mean temperature").
+// plain mean of the readings instead is off by (G·D)²/60 of the drift for a
+// period of length D (expand e^{−Gt} about the centre: b = g(θ_c)·(1 +
+// (GD)²/40), mean − θ∞ = (θ_c − θ∞)(1 + (GD)²/24)), which matters in precise
+// work (DOMAIN §2: "a least-squares slope over a long, curved period is not
+// the drift at the period's mean temperature").
 type Drift struct {
 	Slope           float64 `json:"slope_k_per_s"`
 	Intercept       float64 `json:"intercept_k"` // at t = 0 of the log
@@ -105,7 +106,7 @@ type driftFit struct {
 func newDriftFit(t, y []float64) (*driftFit, error) {
 	n := len(t)
 	if n < 3 {
-		return nil, fmt.Errorf("drift fit: %w: %d readings, need at least 3", errTooFew, n)
+		return nil, fmt.Errorf("drift fit: %w: %d readings, need at least 3", ErrTooFewReadings, n)
 	}
 	f := &driftFit{t: t, y: y, n: n, tStart: t[0], tEnd: t[n-1]}
 	var st, sy float64
@@ -124,7 +125,7 @@ func newDriftFit(t, y []float64) (*driftFit, error) {
 		f.h = math.Max(f.h, math.Abs(d))
 	}
 	if !(f.stt > 0) {
-		return nil, fmt.Errorf("drift fit: %w: all %d readings at %g s", errTooFew, n, t[0])
+		return nil, fmt.Errorf("drift fit: %w: all %d readings at %g s", ErrTooFewReadings, n, t[0])
 	}
 	f.mean = y0 + cy/float64(n)
 	f.slope = sty / f.stt
@@ -148,14 +149,6 @@ func newDriftFit(t, y []float64) (*driftFit, error) {
 	}
 	f.pairT = pt
 	return f, nil
-}
-
-// line is the least-squares line at t.
-func (f *driftFit) line(t float64) float64 { return f.mean + f.slope*(t-f.c) }
-
-// lineIntegral is ∫_a^b line(t) dt.
-func (f *driftFit) lineIntegral(a, b float64) float64 {
-	return f.mean*(b-a) + f.slope*((b-f.c)*(b-f.c)-(a-f.c)*(a-f.c))/2
 }
 
 // riseCurve is the exact Newtonian temperature curve through a drift
@@ -351,5 +344,6 @@ func (f *driftFit) driftCov(grad [][3]float64, sd, rho float64, cov []float64) {
 	}
 }
 
-// errTooFew marks input with too few readings for what was asked.
-var errTooFew = errors.New("too few readings")
+// ErrTooFewReadings is wrapped by AnalyseRise when a period holds too few
+// readings for what it must show.
+var ErrTooFewReadings = errors.New("too few readings")

@@ -41,10 +41,7 @@ type methodStats struct {
 // methodStatCount is the number of fields of methodStats.
 const methodStatCount = 7
 
-func (s methodStats) get(i int) float64 {
-	return [...]float64{s.mF, s.bF, s.TF, s.mP, s.bP, s.TP, s.S}[i]
-}
-
+// add adds d to the i-th statistic (in field order).
 func (s *methodStats) add(i int, d float64) {
 	switch i {
 	case 0:
@@ -92,6 +89,25 @@ const (
 	outInitLine
 	outCount
 )
+
+// methodSetup builds the main period [t1, t2] from the readings strictly
+// inside it (t, y) and the two drift fits: the trapezoid nodes (t1, the
+// readings, t2), the weights w_k = (t_{k+1} − t_{k−1})/2 of the readings and
+// of the two end nodes, and the statistics.
+func methodSetup(t, y []float64, t1, t2, tm float64, fore, after *driftFit) (*methodGeom, methodStats, []float64, []float64) {
+	g := &methodGeom{fore: fore, after: after, t1: t1, t2: t2, tm: tm}
+	nodes := append(append([]float64{t1}, t...), t2)
+	w := make([]float64, len(t))
+	var S float64
+	for k := range t {
+		w[k] = (nodes[k+2] - nodes[k]) / 2
+		S += w[k] * y[k]
+	}
+	g.w0 = (nodes[1] - nodes[0]) / 2
+	g.wn = (nodes[len(nodes)-1] - nodes[len(nodes)-2]) / 2
+	st := methodStats{fore.mean, fore.slope, fore.pairT, after.mean, after.slope, after.pairT, S}
+	return g, st, w, nodes
+}
 
 // eval computes every closed-form method from the statistics.
 //
@@ -232,11 +248,13 @@ func methodFraction(t, y []float64, pre, post methodRef, frac float64) float64 {
 }
 
 // methodGradient returns ∂output/∂stat for every closed-form output, by
-// central differences with steps fixed in physical units (K for m and T,
-// K/s for b, K·s for S) that are far above rounding and far below any
-// curvature of the methods.
+// central differences with steps of 10⁻⁵ of the rise T_f − T_i (at least
+// 10⁻⁸ K) for m and T, a thousandth of that per second for b, and the
+// matching K·s for S: far above rounding, and small against the rise that
+// sets the scale of G's nonlinearity.
 func (g *methodGeom) methodGradient(s methodStats) [outCount][methodStatCount]float64 {
-	steps := [methodStatCount]float64{1e-6, 1e-9, 1e-6, 1e-6, 1e-9, 1e-6, 1e-4 * math.Max(1, g.t2-g.t1)}
+	k := 1e-5 * math.Max(math.Abs(s.TP-s.TF), 1e-3) // K, well inside the rise
+	steps := [methodStatCount]float64{k, k / 1000, k, k, k / 1000, k, 100 * k * math.Max(1, g.t2-g.t1)}
 	var grad [outCount][methodStatCount]float64
 	for i := 0; i < methodStatCount; i++ {
 		up, dn := s, s
@@ -274,10 +292,11 @@ func (g *methodGeom) methodGradient(s methodStats) [outCount][methodStatCount]fl
 //	C3(a, b, c; s) = [C2(a, b; s) − C2(b, c; s)]/(c − a)
 //
 // (the vessel integrates the release, the probe integrates the vessel).
-// Parameters: θ_0, g_0, G, A, ln λ or ln d, t_mix and, with lag, ln c. The
+// Parameters: θ_0, g_0, G, A, ln λ or ln d, t_mix (about the detected
+// mixing time, in units of the response time) and, with lag, ln c. The
 // lag model is kept when it lowers the sum of squares significantly (F > 10
-// for one extra parameter). Long records are averaged into bins weighted by
-// their counts — at most 1000 in each drift period and 2000 in the main
+// for one extra parameter). Records are averaged into bins weighted by
+// their counts — at most 100 in each drift period and 2000 in the main
 // period, where a bin never spans more than a twentieth of the 63 %
 // response time — which leaves the fit of a smooth curve unchanged to
 // second order in the bin width.
@@ -309,10 +328,15 @@ type modelResult struct {
 	covT0A  float64 // cov(θ_0, A)
 	iters   int
 	nBins   int
+	infl    float64 // autocorrelation inflation applied to the covariance
+	tRef    float64 // reference time of the fit (s)
+	tScale  float64 // scale of the t_mix parameter (s)
 }
 
 // curve is the fitted model at t.
-func (m modelResult) curve(t float64) float64 { return modelEval(m.shape, t, m.params) }
+func (m modelResult) curve(t float64) float64 {
+	return modelEval(m.shape, t-m.tRef, m.params, m.tScale)
+}
 
 // modelC2 is C2(a, b; s), stable when a ≈ b.
 func modelC2(a, b, s float64) float64 {
@@ -346,9 +370,13 @@ func modelC3(a, b, c, s float64) float64 {
 	return (modelC2(x, y, s) - modelC2(y, z, s)) / (z - x)
 }
 
-// modelEval is the model at t for parameters p.
-func modelEval(shape modelShape, t float64, p []float64) float64 {
-	th0, g0, G, A, k, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), p[5]
+// modelEval is the model at u = t − t_ref for parameters p, where p[5] =
+// 1 + (t_mix − t_ref)/scale: working about a reference time with a
+// parameter of order 1 keeps the numeric Jacobian's step (relative to the
+// parameter) well sized whatever the clock.
+func modelEval(shape modelShape, u float64, p []float64, scale float64) float64 {
+	th0, g0, G, A, k, tm := p[0], p[1], p[2], p[3], math.Exp(p[4]), (p[5]-1)*scale
+	t := u
 	v := th0 + g0*riseExpm1(G, t-tm)
 	s := t - tm
 	if s <= 0 {
@@ -417,16 +445,19 @@ func modelBin(t, y []float64, segments [][2]int, maxPoints []int) modelData {
 // modelFit fits the model to the readings t, y (spikes excluded) from the
 // fore start to the after end. iMain and iPost are the indices where the
 // main and after periods begin; start holds θ_0, g_0, G, A, the 63 %
-// response time (s) and t_mix; dt is the sampling interval (s); infl the
-// autocorrelation inflation for the covariance.
-func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt, infl float64) modelResult {
+// response time (s) and t_mix; dt is the sampling interval (s).
+func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt float64) modelResult {
 	resp := math.Max(start[4], dt)
 	mainMax := 2000
 	if dt > 0 && iPost > iMain {
 		mainMax = max(mainMax, int((t[iPost-1]-t[iMain])/(resp/20))+1)
 	}
-	d := modelBin(t, y, [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}, []int{1000, mainMax, 1000})
+	d := modelBin(t, y, [][2]int{{0, iMain}, {iMain, iPost}, {iPost, len(t)}}, []int{modelDriftBins, mainMax, modelDriftBins})
 	n := len(d.t)
+	tRef, scale := start[5], resp
+	for i := range d.t {
+		d.t[i] -= tRef
+	}
 	yw := make([]float64, n)
 	for i := range yw {
 		yw[i] = d.sw[i] * d.y[i]
@@ -434,13 +465,13 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt, infl float
 	fitShape := func(shape modelShape, p0 []float64) (*fit.Nonlinear, error) {
 		model := func(p []float64, out []float64) {
 			for i := range out {
-				out[i] = d.sw[i] * modelEval(shape, d.t[i], p)
+				out[i] = d.sw[i] * modelEval(shape, d.t[i], p, scale)
 			}
 		}
-		return fit.LevenbergMarquardtVector(model, n, yw, p0, nil)
+		return fit.LevenbergMarquardtVector(model, n, yw, p0, &modelLM)
 	}
-	base := []float64{start[0], start[1], start[2], start[3], 0, start[5]}
-	res := modelResult{nBins: n}
+	base := []float64{start[0], start[1], start[2], start[3], 0, 1}
+	res := modelResult{nBins: n, tRef: tRef, tScale: scale}
 	var best *fit.Nonlinear
 	var firstErr error
 	for _, shape := range []modelShape{modelFirstOrder, modelPulse} {
@@ -485,6 +516,12 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt, infl float
 		res.reason = fmt.Sprintf("the fitted cooling constant %.3g 1/s is not physical", p[2])
 		return res
 	}
+	// Autocorrelated noise: inflate the covariance by the lag-1
+	// autocorrelation of the fit's own weighted residuals, which for binned
+	// stretches already hold the correlated variance of the bin means.
+	infl := math.Sqrt((1 + driftRho(fit.Lag1Autocorrelation(best.Residuals), n)) /
+		(1 - driftRho(fit.Lag1Autocorrelation(best.Residuals), n)))
+	res.infl = infl
 	res.ok = true
 	res.params = append([]float64(nil), p...)
 	res.rise = p[3]
@@ -494,7 +531,7 @@ func modelFit(t, y []float64, iMain, iPost int, start [6]float64, dt, infl float
 	res.theta0 = p[0]
 	res.dof = best.DoF
 	res.sd = best.ResidualSD
-	res.mix = p[5]
+	res.mix = tRef + (p[5]-1)*scale
 	res.g = p[2]
 	res.iters = best.Iterations
 	res.rate = math.Exp(p[4])
@@ -522,3 +559,15 @@ func modelWhy(err error) string {
 	}
 	return err.Error()
 }
+
+// modelDriftBins caps the bins of each drift period in the model fit: the
+// drift is smooth, so a bin of 1 % of the period changes the fit by
+// θ″w²/24, far below any noise.
+const modelDriftBins = 100
+
+// modelLM are the Levenberg–Marquardt settings of the model fit. The start
+// (from the drift pairs and Regnault–Pfaundler) is already close, so the
+// damping starts small: λ0 = 10⁻² instead of fit's cautious 10³ takes a
+// quarter of the iterations to the same minimum. Clean runs converge in
+// 20–40 trial steps; 300 bounds the cost of a log the model cannot fit.
+var modelLM = fit.LMSettings{Lambda0: 1e-2, MaxIterations: 300}

@@ -68,9 +68,15 @@ func (v riseNum) MarshalJSON() ([]byte, error) { return []byte(riseJSONNumber(fl
 // Rise is the reduction of one temperature log to a corrected temperature
 // change.
 type Rise struct {
-	Points      int
-	MixTime     float64 // s
-	MixTimeU    float64 // how sure the detection is (s); 0 when given
+	Points int
+	// MixTime is the start of the process (s): as given, or detected where
+	// the readings leave the fore drift (periodDetect). MixTimeU says how
+	// sure the detection is (s; 0 when given): the profile-likelihood half
+	// width of the onset, combined, when the model fit is trusted, with the
+	// difference from the model's own start — a lagging probe leaves the
+	// fore drift later than the process starts.
+	MixTime     float64
+	MixTimeU    float64
 	MixDetected bool
 	Periods     struct {
 		Pre  Period `json:"pre"`
@@ -131,7 +137,7 @@ type Rise struct {
 // contract (mix_time_s, periods, drift.pre/post, methods, method,
 // delta_t_k, u_delta_t_k, checks …); numbers that are not finite are null
 // and the per-reading residuals are left out.
-func (r *Rise) MarshalJSON() ([]byte, error) {
+func (r Rise) MarshalJSON() ([]byte, error) {
 	nums := func(m map[string]float64) map[string]riseNum {
 		out := make(map[string]riseNum, len(m))
 		for k, v := range m {
@@ -178,6 +184,8 @@ func (r *Rise) MarshalJSON() ([]byte, error) {
 
 // ErrRiseInput is wrapped by AnalyseRise errors about its input (too few
 // readings, times not increasing, values not finite, options out of range).
+// Every AnalyseRise error is about the data: it wraps ErrRiseInput,
+// ErrTooFewReadings (a period too short to fit) or ErrNoProcess.
 var ErrRiseInput = errors.New("bad temperature log")
 
 // riseMinPoints is the fewest readings AnalyseRise accepts: three for each
@@ -201,9 +209,10 @@ type riseData struct {
 // and the after period (periodDetect says how, unless RiseOptions fix
 // them). Each drift period is fitted by a straight line and its honest drift
 // pair (see Drift); the pairs give G and θ∞ and the Newtonian curve of each
-// period. Readings that are isolated extremes more than SpikeZ noise SDs
-// from both neighbours, or drift-period readings whose robust z-score of
-// the residual exceeds SpikeZ, are excluded as spikes and listed.
+// period. Single readings that stand more than SpikeZ noise SDs off the
+// line through their neighbours (riseSpikes), and drift-period readings
+// whose robust z-score of the residual exceeds SpikeZ, are excluded as
+// spikes and listed.
 //
 // The methods (methodGeom.eval and modelFit give the formulas) are
 // Regnault–Pfaundler, Dickinson, extrapolation to the mixing time and the
@@ -229,15 +238,18 @@ type riseData struct {
 // autocorrelated noise is weighted exactly rather than by a blanket factor.
 // Components: fore-drift and after-drift (ν = n − 2, reduced by
 // (1 − ρ)/(1 + ρ)), main-readings (σ and ρ pooled from the two drift
-// periods), resolution δ/(2√3) for each end temperature when the readings
-// sit on a resolution step coarser than twice their noise (otherwise the
-// rounding is already in the measured scatter), probe-calibration
-// UTemperature·√(2(1 − r)) when UTemperature > 0. Dickinson and
+// periods); with a detected resolution δ each period's noise is taken as at
+// least δ/(2√3) and the share δ²/12 of its variance is reported as the
+// resolution component (type B) — rounding that the measured scatter and
+// its autocorrelation already show, so nothing is counted twice;
+// probe-calibration UTemperature·√(2(1 − r)) when UTemperature > 0 (r =
+// ProbeCorrelation). Dickinson and
 // extrapolation add line-curvature: the difference the straight lines make
 // against the Newtonian curves; extrapolation adds instant-release, the
 // equal-area minus mixing-time difference on the curves (DOMAIN §2: bias ≈
 // (r2 − r1)(t_x − t_mix)), and mixing-time, |r2 − r1|·MixTimeU. The model's
-// u comes from its fit covariance, inflated by √((1+ρ)/(1−ρ)). DoF is the
+// u comes from its fit covariance, inflated by √((1+ρ)/(1−ρ)) with ρ the
+// lag-1 autocorrelation of its residuals. DoF is the
 // Welch–Satterthwaite ν_eff = u⁴/Σ(u_i⁴/ν_i) (JCGM 100:2008, G.2).
 func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	if err := riseValidate(t, theta, &opt); err != nil {
@@ -253,7 +265,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		sigma = math.Max(sigma, quantum/math.Sqrt(12))
 	}
 	dt := riseMedianStep(t)
-	excluded := riseSpikes(theta, sigma, lim.SpikeZ)
+	excluded := riseSpikes(t, theta, sigma, lim.SpikeZ)
 	d := riseKeep(t, theta, excluded)
 	d.sigma, d.dt, d.quantum = sigma, dt, quantum
 
@@ -285,9 +297,14 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		if after, err = newDriftFit(d.t[iP:iEnd], d.y[iP:iEnd]); err != nil {
 			return nil, fmt.Errorf("after period: %w", err)
 		}
+		// The cooling constant needs the two drift temperatures apart by
+		// more than their noise (and the resolution and float rounding).
 		dT := after.pairT - fore.pairT
-		if !(math.Abs(dT) > 0) {
-			return nil, fmt.Errorf("drift: %w: the fore and after periods have the same temperature %.6g K", ErrNoProcess, fore.pairT)
+		need := math.Max(5*sigma*math.Sqrt(1/float64(fore.n)+1/float64(after.n)),
+			math.Max(quantum, 1e-9*math.Abs(fore.pairT)))
+		if !(math.Abs(dT) > need) {
+			return nil, fmt.Errorf("drift: %w: the after period is only %s from the fore period, within the %s its noise allows (hint: check the mixing time and periods)",
+				ErrNoProcess, checkK(dT), checkK(need))
 		}
 		G = (fore.slope - after.slope) / dT
 		fore.finish(G)
@@ -332,19 +349,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 
 	// Main period: interior readings and trapezoid weights.
 	iA, iB := sortAfter(d.t, pl.t1), sort0(d.t, pl.t2)
-	geom := &methodGeom{fore: fore, after: after, t1: pl.t1, t2: pl.t2, tm: pl.tm}
-	nodes := append(append([]float64{pl.t1}, d.t[iA:iB]...), pl.t2)
-	wMain := make([]float64, iB-iA)
-	var S float64
-	for k := iA; k < iB; k++ {
-		j := k - iA + 1
-		w := (nodes[j+1] - nodes[j-1]) / 2
-		wMain[k-iA] = w
-		S += w * d.y[k]
-	}
-	geom.w0 = (nodes[1] - nodes[0]) / 2
-	geom.wn = (nodes[len(nodes)-1] - nodes[len(nodes)-2]) / 2
-	st := methodStats{fore.mean, fore.slope, fore.pairT, after.mean, after.slope, after.pairT, S}
+	geom, st, wMain, nodes := methodSetup(d.t[iA:iB], d.y[iA:iB], pl.t1, pl.t2, pl.tm, fore, after)
 	mr := geom.eval(st)
 	res.G, res.ThetaInf = mr.G, mr.thetaInf
 	grad := geom.methodGradient(st)
@@ -406,7 +411,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"line-curvature", math.Abs(mr.dick - mr.dickCurve), math.Inf(1)})
 	parts[MethodExtrapolation] = append(append(noiseParts(outExtrapolation), common...),
 		RiseUncertainty{"line-curvature", math.Abs(mr.extrap - mr.extrapCurve), math.Inf(1)},
-		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - mr.dickCurve), math.Inf(1)})
+		RiseUncertainty{"instant-release", math.Abs(mr.extrapCurve - riseFinite(mr.dickCurve, mr.rp)), math.Inf(1)})
 
 	// T60, Tx and the response time from the main-period readings.
 	yNodes := append(append([]float64{mr.theta0}, d.y[iA:iB]...), mr.thetaN)
@@ -421,15 +426,13 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	}
 
 	// The model.
-	rhoPool := (fore.rho + after.rho) / 2
-	infl := math.Sqrt((1 + rhoPool) / (1 - rhoPool))
 	g0 := fore.slope - mr.G*(mr.initCurve-fore.pairT)
 	mG := mr.G
 	if !(mG > 0) {
 		mG = 1e-6
 	}
 	mfit := modelFit(d.t[pl.iStart:pl.iEnd], d.y[pl.iStart:pl.iEnd], iA-pl.iStart, iB-pl.iStart,
-		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt, infl)
+		[6]float64{mr.initCurve, g0, mG, mr.rp, res.ResponseTime, pl.tm}, dt)
 	modelOK := mfit.ok && mfit.sd <= lim.MaxResidualRatio*sigma
 	if modelOK && pl.detected {
 		// The detected time is where the readings leave the fore drift; a
@@ -442,7 +445,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		RiseUncertainty{"mixing-time", math.Abs(after.slope-fore.slope) * res.MixTimeU, math.Inf(1)})
 	if mfit.ok {
 		values[MethodModel] = mfit.rise
-		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) * (1 - rhoPool) / (1 + rhoPool)}}, common...)
+		parts[MethodModel] = append([]RiseUncertainty{{"model-fit", mfit.u, float64(mfit.dof) / (mfit.infl * mfit.infl)}}, common...)
 	}
 	if math.IsNaN(mr.dick) {
 		delete(values, MethodDickinson)
@@ -455,7 +458,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 
 	// Checks that the choice depends on.
 	cc := &checkContext{res: res, lim: lim, fore: fore, after: after, model: mfit, modelOK: modelOK,
-		sigma: sigma, dt: dt, quantum: quantum, d: d, pl: pl}
+		sigma: sigma, dt: dt, quantum: quantum}
 	afterLinear := cc.driftLinear("after-drift-linear", after, pl.t2)
 	foreLinear := cc.driftLinear("fore-drift-linear", fore, pl.t1)
 	afterLong := after.tEnd-after.tStart >= lim.MinAfterS && after.n >= lim.MinPoints
@@ -481,7 +484,11 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		}
 	default:
 		if _, ok := values[method]; !ok {
-			return nil, fmt.Errorf("method %s: not available for this run: %s", method, cc.modelWhy())
+			why := cc.modelWhy()
+			if method == MethodDickinson {
+				why = "the readings leave the band between the fore and after lines, so no equal-area time exists"
+			}
+			return nil, fmt.Errorf("method %s: not available for this run: %s", method, why)
 		}
 		res.MethodReason = "chosen by the caller"
 	}
@@ -553,6 +560,14 @@ func riseMainCov(w []float64, grad [outCount][methodStatCount]float64, sd, rho f
 		}
 		sn = s
 	}
+}
+
+// riseFinite returns v, or alt when v is NaN.
+func riseFinite(v, alt float64) float64 {
+	if math.IsNaN(v) {
+		return alt
+	}
+	return v
 }
 
 // riseCombine returns the root sum of squares of the components and the
@@ -703,19 +718,34 @@ func riseMedianStep(t []float64) float64 {
 	return fit.Median(d)
 }
 
-// riseSpikes finds single-reading spikes: a reading that is a local
-// extreme, more than z·σ·√2 from both neighbours (the difference of two
-// readings has SD σ√2), while its neighbours agree with each other to
-// within that. A monotonic rise, however fast, has no such reading.
-func riseSpikes(y []float64, sigma, z float64) []int {
-	var out []int
-	lim := z * sigma * math.Sqrt2
-	if !(lim > 0) {
+// riseSpikes finds single-reading spikes from the departures of each
+// reading from the line through its neighbours,
+//
+//	d_k = θ_k − (a·θ_{k−1} + b·θ_{k+1}),   a = (t_{k+1} − t_k)/(t_{k+1} − t_{k−1}),  b = 1 − a,
+//
+// whose noise SD is σ√(1 + a² + b²). A spike S at k gives d_k ≈ S and
+// d_{k±1} ≈ −S/2; a smooth peak or the kink at the start of a release gives
+// neighbours of the same sign or near zero. A reading is a spike when |d_k|
+// exceeds z noise SDs and both neighbouring departures have the opposite
+// sign and at least a quarter of its size. A rise, however fast, has no
+// such reading.
+func riseSpikes(t, y []float64, sigma, z float64) []int {
+	n := len(y)
+	if !(sigma > 0) || n < 5 {
 		return nil
 	}
-	for k := 1; k+1 < len(y); k++ {
-		a, b := y[k]-y[k-1], y[k]-y[k+1]
-		if a*b > 0 && math.Min(math.Abs(a), math.Abs(b)) > lim && math.Abs(y[k+1]-y[k-1]) < lim {
+	d := make([]float64, n)
+	lim := make([]float64, n)
+	for k := 1; k < n-1; k++ {
+		a := (t[k+1] - t[k]) / (t[k+1] - t[k-1])
+		b := 1 - a
+		d[k] = y[k] - (a*y[k-1] + b*y[k+1])
+		lim[k] = z * sigma * math.Sqrt(1+a*a+b*b)
+	}
+	var out []int
+	for k := 2; k < n-2; k++ {
+		if math.Abs(d[k]) > lim[k] && d[k-1]*d[k] < 0 && d[k+1]*d[k] < 0 &&
+			math.Abs(d[k-1]) > math.Abs(d[k])/4 && math.Abs(d[k+1]) > math.Abs(d[k])/4 {
 			out = append(out, k)
 		}
 	}
