@@ -42,11 +42,7 @@ func runBatch(a *app, args []string) error {
 	title := fs.String("title", "", "title of the HTML report (default: the manifest's name)")
 	sigmaPT := fs.String("sigma-pt", "", "standard deviation for proficiency assessment for z scores, kJ/mol or % of the accepted value (e.g. 5%)")
 	ledgerFile := fs.String("ledger", "", "append every run to this ledger CSV")
-	lf := addOutFlags(newFlags(a, "batch-limits", "", ""), false).limits
-	fs.StringVar(lf.minFore, "min-fore", "", "shortest fore period accepted, s (default 120 s)")
-	fs.StringVar(lf.minAfter, "min-after", "", "shortest after period accepted, s (default 120 s)")
-	fs.IntVar(lf.minPoints, "min-points", 0, "fewest readings in a fore or after period (default 20)")
-	fs.Float64Var(lf.spikeZ, "spike-z", 0, "robust z beyond which a reading is a spike (default 6)")
+	lf := addLimitFlags(fs)
 	quiet := fs.Bool("quiet", false, "print only the summary table")
 	if err := parseFlags(fs, args); err != nil {
 		return err

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -43,11 +44,19 @@ func addOutFlags(fs *flag.FlagSet, mc bool) *outFlags {
 	}
 	o.ledger = fs.String("ledger", "", "append the result to this ledger CSV (created when absent)")
 	o.supersede = fs.String("supersede", "", "the result corrects the ledger row of this RUN_ID (a new row; nothing is rewritten)")
-	o.limits.minFore = fs.String("min-fore", "", "shortest fore period accepted, s (default 120 s)")
-	o.limits.minAfter = fs.String("min-after", "", "shortest after period accepted, s (default 120 s)")
-	o.limits.minPoints = fs.Int("min-points", 0, "fewest readings in a fore or after period (default 20)")
-	o.limits.spikeZ = fs.Float64("spike-z", 0, "robust z beyond which a reading is a spike (default 6)")
+	o.limits = addLimitFlags(fs)
 	return o
+}
+
+// addLimitFlags registers the check-limit flags, with the defaults of the analysis.
+func addLimitFlags(fs *flag.FlagSet) limitFlags {
+	d := calorimeter.DefaultCheckLimits()
+	return limitFlags{
+		minFore:   fs.String("min-fore", "", fmt.Sprintf("shortest fore period accepted, s (default %g s)", d.MinForeS)),
+		minAfter:  fs.String("min-after", "", fmt.Sprintf("shortest after period accepted, s (default %g s)", d.MinAfterS)),
+		minPoints: fs.Int("min-points", 0, fmt.Sprintf("fewest readings in a fore or after period (default %d)", d.MinPoints)),
+		spikeZ:    fs.Float64("spike-z", 0, fmt.Sprintf("robust z beyond which a reading is a spike (default %g)", d.SpikeZ)),
+	}
 }
 
 // runInput is one log with its description, ready to analyse.
@@ -179,8 +188,8 @@ func analyse(ri *runInput, lf limitFlags) (*calorimeter.Rise, error) {
 	rise, err := calorimeter.AnalyseRise(ri.log.Time, ri.log.Temperature, opt)
 	if err != nil {
 		hint := ""
-		if math.IsNaN(opt.MixTime) {
-			hint = "look at the log with `calred inspect`, or give the mixing time with --mix-time"
+		if errors.Is(err, calorimeter.ErrNoProcess) {
+			hint = "look at the log with `calred inspect`, or give the mixing time with --mix-time (s from the first reading)"
 		}
 		return nil, withHint(dataf("%s: %w", ri.name, err), hint)
 	}
