@@ -17,8 +17,10 @@ import (
 //	Round(3.4567e-5, 1.2e-7) = "3.457e-05", "1.2e-07"
 //
 // The numbers are written in fixed notation while the last digit kept lies
-// between 10⁻⁵ and 10⁴ and |value| < 10¹⁵, else in e-notation with the
-// value's digits ending at the same place as u's. Ties, rare in binary, go to
+// between 10⁻⁵ and 10⁴ (down to 10⁻⁸ when |value| ≥ 10⁻³, so that a
+// temperature change of −0.381504 ± 0.000060 K stays readable) and
+// |value| < 10¹⁵, else in e-notation with the value's digits ending at the
+// same place as u's. Ties, rare in binary, go to
 // the even digit. When u is 0, negative, NaN or infinite there is no
 // uncertainty: the value is given to 10 significant digits and uText is "".
 func Round(value, u float64) (v, uText string) {
@@ -45,13 +47,13 @@ func unitsRound(value, u float64) unitsRounded {
 		r.v = strconv.FormatFloat(value, 'g', -1, 64)
 		return r
 	}
-	if q >= -5 && q <= 4 && math.Abs(value) < 1e15 {
+	if q <= 4 && math.Abs(value) < 1e15 && (q >= -5 || (q >= -8 && math.Abs(value) >= 1e-3)) {
 		return unitsRounded{v: unitsFixed(value, q), u: unitsFixed(u, q), q: q}
 	}
 	return unitsRounded{v: unitsSci(value, q), u: us, q: q, sci: true}
 }
 
-// unitsFixed writes x rounded to the 10^q place, -5 ≤ q ≤ 4, in fixed
+// unitsFixed writes x rounded to the 10^q place, -8 ≤ q ≤ 4, in fixed
 // notation.
 func unitsFixed(x float64, q int) string {
 	var s string

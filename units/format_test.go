@@ -42,19 +42,21 @@ func TestRound(t *testing.T) {
 		{"u of exactly 10", 452.123, 10, "452", "10"},                          // analytic
 		{"u of exactly 1", 452.123, 1, "452.1", "1.0"},                         // analytic
 
-		// e-notation for places below 1e-5 or above 1e4, or |value| ≥ 1e15.
-		{"small", 3.4567e-5, 1.2e-7, "3.457e-05", "1.2e-07"},                    // analytic
-		{"place 1e-6", 1.234567, 0.000012, "1.234567e+00", "1.2e-05"},           // analytic
-		{"small carries", 9.99996e-7, 1.2e-10, "1.00000e-06", "1.2e-10"},        // analytic: last digit stays at 1e-11
-		{"carry from one digit", 9.6e-8, 1.2e-7, "1.0e-07", "1.2e-07"},          // analytic: 9.6e-8 → 10e-8
-		{"small no carry", 9.9996e-7, 1.2e-10, "9.9996e-07", "1.2e-10"},         // analytic
-		{"zero", 0, 1.2e-7, "0.0e-07", "1.2e-07"},                               // analytic
-		{"value far below u", 3e-10, 1.2e-7, "0.0e-07", "1.2e-07"},              // analytic
-		{"value rounds up to the last place", 7e-9, 1.2e-7, "1e-08", "1.2e-07"}, // analytic: 7e-9 → 1e-8
-		{"value rounds down to zero", 4e-9, 1.2e-7, "0.0e-07", "1.2e-07"},       // analytic
-		{"Avogadro-sized", 6.02214076e23, 1.2e19, "6.02214e+23", "1.2e+19"},     // analytic
-		{"huge value, small u", 1.5e15, 3, "1.5000000000000000e+15", "3.0e+00"}, // analytic
-		{"large place", 123456789, 1.2e6, "1.235e+08", "1.2e+06"},               // analytic
+		// e-notation for places below 1e-5 (1e-8 when |value| ≥ 1e-3) or above 1e4, or |value| ≥ 1e15.
+		{"small", 3.4567e-5, 1.2e-7, "3.457e-05", "1.2e-07"},                      // analytic
+		{"place 1e-6", 1.234567, 0.000012, "1.234567", "0.000012"},                // analytic: fixed down to 1e-8 for |value| ≥ 1e-3
+		{"place 1e-10", 1.234567891, 0.0000000012, "1.2345678910e+00", "1.2e-09"}, // analytic: last digit in the 1e-10 place
+		{"small change", -0.381504, 0.00006, "-0.381504", "0.000060"},             // analytic
+		{"small carries", 9.99996e-7, 1.2e-10, "1.00000e-06", "1.2e-10"},          // analytic: last digit stays at 1e-11
+		{"carry from one digit", 9.6e-8, 1.2e-7, "1.0e-07", "1.2e-07"},            // analytic: 9.6e-8 → 10e-8
+		{"small no carry", 9.9996e-7, 1.2e-10, "9.9996e-07", "1.2e-10"},           // analytic
+		{"zero", 0, 1.2e-7, "0.0e-07", "1.2e-07"},                                 // analytic
+		{"value far below u", 3e-10, 1.2e-7, "0.0e-07", "1.2e-07"},                // analytic
+		{"value rounds up to the last place", 7e-9, 1.2e-7, "1e-08", "1.2e-07"},   // analytic: 7e-9 → 1e-8
+		{"value rounds down to zero", 4e-9, 1.2e-7, "0.0e-07", "1.2e-07"},         // analytic
+		{"Avogadro-sized", 6.02214076e23, 1.2e19, "6.02214e+23", "1.2e+19"},       // analytic
+		{"huge value, small u", 1.5e15, 3, "1.5000000000000000e+15", "3.0e+00"},   // analytic
+		{"large place", 123456789, 1.2e6, "1.235e+08", "1.2e+06"},                 // analytic
 
 		// Exact binary ties go to the even digit, as strconv rounds.
 		{"tie in u", 3.0, 0.125, "3.00", "0.12"},  // analytic: 0.125 is exact in binary
