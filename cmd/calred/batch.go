@@ -226,7 +226,7 @@ func readManifest(path string) ([]manifestRow, error) {
 		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
 		key := strings.ReplaceAll(h, "_", "-")
 		switch key {
-		case "log", "kind", "cal", "accepted":
+		case "log", "kind", "cal":
 		default:
 			if _, ok := fieldByName(key); !ok {
 				return nil, dataf("%s:1: unknown column %q (columns are flag names with '_' for '-', plus log, kind, cal, accepted)", name, h)
@@ -267,6 +267,7 @@ func readManifest(path string) ([]manifestRow, error) {
 				mr.spec.set("cal", v, origin)
 			case "accepted":
 				mr.accepted = v
+				mr.spec.set("accepted", v, origin)
 			default:
 				mr.spec.set(cols[i], v, origin)
 			}

@@ -64,6 +64,8 @@ var fields = []field{
 	{name: "operator", text: true, use: "rc", help: "who ran the measurement"},
 	{name: "sample-id", text: true, use: "rc", help: "sample or lot identifier"},
 	{name: "note", text: true, use: "rc", help: "free note recorded with the result"},
+	// Grading.
+	{name: "accepted", dim: units.MolarEnthalpy, unit: "kJ/mol", use: "r", help: "accepted ΔsolH to grade the result against, kJ/mol with ±u (error %, ζ, En; ISO 13528)"},
 }
 
 func fieldByName(name string) (field, bool) {

@@ -45,6 +45,14 @@ func runReduce(a *app, args []string) error {
 	if err != nil {
 		return err
 	}
+	if q, ok, err := res.in.spec.quantity("accepted"); err != nil {
+		return err
+	} else if ok {
+		red := res.red
+		g := calorimeter.GradeResult(red.MolarEnthalpy, red.UMolarEnthalpy, red.Expanded, q.Value/1000, q.U/1000, 0)
+		g.Feedback = calorimeter.Diagnose(red.MolarEnthalpy, q.Value/1000, red.Sample.MolarMass, nil)
+		res.grade = &g
+	}
 	if mc >= 0 {
 		m, err := res.red.MonteCarlo(mc, *out.seed, runtime.NumCPU())
 		if err != nil {
@@ -83,10 +91,11 @@ func monteCarloTrials(o *outFlags) (int, error) {
 
 // sampleResult is one reduced sample run.
 type sampleResult struct {
-	in  *runInput
-	red *calorimeter.Reduction
-	hc  calorimeter.HeatCapacity
-	mc  *calorimeter.MonteCarloResult
+	in    *runInput
+	red   *calorimeter.Reduction
+	hc    calorimeter.HeatCapacity
+	mc    *calorimeter.MonteCarloResult
+	grade *calorimeter.Grade
 }
 
 // reduceSample loads, analyses and reduces one sample log. dir resolves a
@@ -200,6 +209,13 @@ func (r *sampleResult) json() map[string]any {
 	if c := calorimeter.Caution(red.Sample.Formula); c != "" {
 		m["caution"] = c
 	}
+	if g := r.grade; g != nil {
+		m["grade"] = map[string]any{
+			"accepted_kj_per_mol": g.Accepted, "u_accepted_kj_per_mol": g.UAccepted,
+			"error_percent": finiteOrNil(g.ErrorPercent), "zeta_score": finiteOrNil(g.Zeta), "en_number": finiteOrNil(g.En),
+			"verdict": g.Verdict, "basis": g.Basis, "feedback": g.Feedback,
+		}
+	}
 	return m
 }
 
@@ -252,6 +268,13 @@ func (r *sampleResult) writeText(w io.Writer) error {
 	fmt.Fprintf(w, "  %s\n", red.Convention)
 	if r.mc != nil {
 		writeMonteCarloText(w, r.mc)
+	}
+	if g := r.grade; g != nil {
+		fmt.Fprintf(w, "  against the accepted %s: error %+.2f %%, ζ = %.2f, En = %.2f — %s (ISO 13528)\n",
+			units.Format(g.Accepted, g.UAccepted, "kJ/mol"), g.ErrorPercent, g.Zeta, g.En, g.Verdict)
+		for _, fb := range g.Feedback {
+			fmt.Fprintf(w, "    %s\n", fb)
+		}
 	}
 	fmt.Fprintln(w, "\nUncertainty budget (GUM law of propagation, JCGM 100:2008)")
 	if err := calorimeter.WriteBudgetTable(w, red.Budget, "kJ/mol"); err != nil {
