@@ -1,8 +1,13 @@
 package calorimeter
 
 import (
+	"bytes"
+	"flag"
+	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"testing"
 )
 
@@ -133,5 +138,45 @@ func TestRiseInputDistribution(t *testing.T) {
 				t.Errorf("got %v with ν = %g, want %v with ν = %g", in.Dist, in.DoF, tc.want, tc.nu)
 			}
 		})
+	}
+}
+
+var chainUpdateLogs = flag.Bool("update-two-pulses", false, "rewrite ../testdata/logs/two_pulses.csv from its simulation")
+
+// chainTwoPulsesCSV is the logger export of chainTwoPulses for the
+// command-line tests: the invented Kestrel bench's cell calibrated by two
+// 0.5 W × 300 s heater pulses, time in s, temperature in K to 0.1 mK and
+// the heater-power column.
+func chainTwoPulsesCSV() []byte {
+	t, theta, col := chainTwoPulses(chainEps, chainPower, chainPower, 41)
+	var b bytes.Buffer
+	b.WriteString("# lab: Kestrel Analytical (invented), solution calorimetry bench 2\n")
+	b.WriteString("# operator: D. Achterberg\n")
+	b.WriteString("# contents-mass: 100.00 g\n")
+	b.WriteString("# note: heater pulses before and after; synthetic, made by calorimeter.Simulation (chainTwoPulses, seed 41): ε = 512 J/K\n")
+	b.WriteString("Time (s),Temperature (K),Heater power (W)\n")
+	for k := range t {
+		fmt.Fprintf(&b, "%.1f,%.4f,%.3f\n", t[k], theta[k], col[k])
+	}
+	return b.Bytes()
+}
+
+// TestTwoPulsesLog keeps ../testdata/logs/two_pulses.csv (used by the
+// calibrate_two_pulses script) equal to its simulation; run with
+// -update-two-pulses to rewrite it.
+func TestTwoPulsesLog(t *testing.T) {
+	path := filepath.Join("..", "testdata", "logs", "two_pulses.csv")
+	want := chainTwoPulsesCSV()
+	if *chainUpdateLogs {
+		if err := os.WriteFile(path, want, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	got, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Errorf("%s differs from its simulation; rerun with -update-two-pulses", path)
 	}
 }

@@ -186,6 +186,10 @@ func ReduceSample(rise *Rise, s Sample, hc HeatCapacity, opt ReduceOptions) (*Re
 	}
 	red.MolarEnthalpy, red.UMolarEnthalpy = b.Value, b.U
 	red.Expanded, red.CoverageFactor, red.DoF = b.Expanded, b.K, b.DoF
+	if s.SolutionCp > 0 && !strings.HasPrefix(red.HeatCapacityBasis, "vessel part") {
+		red.Checks = append(red.Checks, Check{Name: "solution-cp-unused", Status: Warn,
+			Detail: fmt.Sprintf("the solution's c_p %.5g J/(g·K) was given but not used: the heat capacity is %s; it enters only with a calibration's vessel part and the solvent mass", s.SolutionCp, red.HeatCapacityBasis)})
+	}
 	red.Checks = append(red.Checks, reduceChecks(red)...)
 	red.Status = Worst(red.Checks)
 	return red, nil
@@ -225,7 +229,7 @@ func reduceChecks(r *Reduction) []Check {
 			if r.MolarEnthalpy < 0 {
 				got = -1
 			}
-			word := map[int]string{1: "endothermic (ΔsolH > 0, the water cools)", -1: "exothermic (ΔsolH < 0, the water warms)"}
+			word := map[int]string{1: "endothermically (ΔsolH > 0, the water cools)", -1: "exothermically (ΔsolH < 0, the water warms)"}
 			if got != sign {
 				out = append(out, Check{Name: "sign-as-expected", Status: Fail,
 					Detail: fmt.Sprintf("%s dissolves %s, but this run gives ΔsolH = %.3g kJ/mol: check the sign of ΔT, the mixing time and the substance", f, word[sign], r.MolarEnthalpy)})

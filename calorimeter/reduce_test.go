@@ -457,6 +457,48 @@ func TestReduceSignMolality(t *testing.T) {
 	}
 }
 
+func TestReduceHeatCapacityBasis(t *testing.T) {
+	// analytic: ε = C_v + (m_w + m_s)·c_p,sol with the vessel part and a
+	// given solution c_p; a given c_p that cannot be used is flagged.
+	r := &Rise{DeltaT: 0.3, UDeltaT: 0.0003, DoF: 50, MeanTemperature: 298.15}
+	run, err := CalibrateRun(r, CalibrationSetup{RunID: "c", ContentsMass: 100,
+		Electrical: &Electrical{Power: 0.5, Time: 300}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	split, _ := Combine([]*CalibrationRun{run}, time.Time{}, "")
+	run2, _ := CalibrateRun(r, CalibrationSetup{RunID: "c", Electrical: &Electrical{Power: 0.5, Time: 300}})
+	total, _ := Combine([]*CalibrationRun{run2}, time.Time{}, "")
+	s := &Rise{DeltaT: -0.38, UDeltaT: 0.0003, DoF: 50, MeanTemperature: 298.15}
+	cv := 500 - 100*WaterCp(298.15)
+	for _, tc := range []struct {
+		name   string
+		smp    Sample
+		hc     HeatCapacity
+		eps    float64
+		unused bool
+	}{
+		{"vessel part and water", Sample{Mass: 1, Formula: "KCl", SolventMass: 120}, HeatCapacity{Calibration: split}, cv + 120*WaterCp(298.15), false},
+		{"vessel part and the solution's c_p", Sample{Mass: 1, Formula: "KCl", SolventMass: 120, SolutionCp: 4.1}, HeatCapacity{Calibration: split}, cv + 121*4.1, false},
+		{"no solvent mass: total", Sample{Mass: 1, Formula: "KCl"}, HeatCapacity{Calibration: split}, 500, false},
+		{"no vessel part: total, c_p unused", Sample{Mass: 1, Formula: "KCl", SolventMass: 120, SolutionCp: 4.1}, HeatCapacity{Calibration: total}, 500, true},
+		{"given ε, c_p unused", Sample{Mass: 1, Formula: "KCl", SolutionCp: 4.1}, HeatCapacity{Value: 480, U: 1}, 480, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			red, err := ReduceSample(s, tc.smp, tc.hc, ReduceOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !chainClose(red.HeatCapacity, tc.eps, 1e-9, 0) {
+				t.Errorf("ε = %.6f J/K (%s), want %.6f J/K", red.HeatCapacity, red.HeatCapacityBasis, tc.eps)
+			}
+			if got := strings.Contains(fmt.Sprint(red.Checks), "solution-cp-unused"); got != tc.unused {
+				t.Errorf("solution-cp-unused check %v, want %v: %v", got, tc.unused, red.Checks)
+			}
+		})
+	}
+}
+
 func ExampleReduceSample() {
 	// An invented KCl run in a cell whose heat capacity is known: it cooled
 	// by 0.3820 ± 0.0003 K.
