@@ -59,8 +59,8 @@ type CalibrationSetup struct {
 	Chemical            *ChemicalCalibration
 	Mixing              *Mixing
 	ContentsMass        float64 // g of liquid present (0 = unknown); mixing runs know it
-	UContentsMass       float64
-	UMass               float64 // balance standard uncertainty, g
+	UContentsMass       float64 // g (0 = UMass)
+	UMass               float64 // balance standard uncertainty of every weighing without its own, g (0 = DefaultUMass)
 }
 
 // StoredInput is an input of a calibration's measurement model as written to
@@ -314,6 +314,9 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		return nil, errors.New("calibration: no temperature analysis")
 	}
 	who := calWho(s.RunID)
+	if s.UMass == 0 {
+		s.UMass = DefaultUMass
+	}
 	r := &CalibrationRun{RunID: s.RunID, File: s.File, SHA256: s.SHA256, Points: rise.Points,
 		CorrectionMethod: rise.Method, MixTime: rise.MixTime, DeltaT: rise.DeltaT, UDeltaT: rise.UDeltaT,
 		MeanTemperature: rise.MeanTemperature, Rise: rise}
@@ -418,7 +421,7 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		}
 		if mx.HotTemperature <= rise.FinalTemperature {
 			return nil, fmt.Errorf("%s: hot water at %.2f °C is not warmer than the final temperature %.2f °C",
-				s.RunID, mx.HotTemperature-273.15, rise.FinalTemperature-273.15)
+				who, mx.HotTemperature-273.15, rise.FinalTemperature-273.15)
 		}
 		for _, t := range []float64{mx.HotTemperature, rise.InitialTemperature, rise.FinalTemperature} {
 			if !WaterValid(t) {
@@ -443,6 +446,10 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 			Input{Name: "final temperature at mixing (after line)", Symbol: "T_f", Unit: "K", Value: rise.FinalTemperature, U: rise.UFinal, DoF: riseDoF(rise), Dist: Normal},
 			cpScaleInput(rise.FinalTemperature))
 		r.ContentsMass = mx.ColdMass + mx.HotMass
+		if !(rise.DeltaT > 0) {
+			r.Checks = append(r.Checks, Check{Name: "calibration-sign", Status: Fail,
+				Detail: fmt.Sprintf("adding hot water must warm the vessel, but ΔT = %.4g K", rise.DeltaT)})
+		}
 		if rise.CovInitialFinal != 0 {
 			r.Correlations = append(r.Correlations, StoredCorrelation{A: "T_c", B: "T_f", R: chainCorr(rise.UInitial, rise.UFinal, rise.CovInitialFinal)})
 		}

@@ -214,6 +214,19 @@ func TestCalibrateStandardSign(t *testing.T) {
 	}
 }
 
+func TestCalibrateMixingSign(t *testing.T) {
+	// Hot water poured in, yet the vessel ended colder than it began: the
+	// run cannot be a mixing calibration (energy balance, DOMAIN §3).
+	r := &Rise{DeltaT: -1, UDeltaT: 0.01, DoF: 40, InitialTemperature: 300.15, FinalTemperature: 299.15, MeanTemperature: 299.65}
+	run, err := CalibrateRun(r, CalibrationSetup{RunID: "m", Mixing: &Mixing{ColdMass: 50, HotMass: 50, HotTemperature: 320.15}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if run.Status != Fail || !strings.Contains(fmt.Sprint(run.Checks), "calibration-sign fail") {
+		t.Errorf("status %s, checks %v: want calibration-sign failed", run.Status, run.Checks)
+	}
+}
+
 // Rows of testdata/water-iapws95-0.1MPa.csv (IAPWS-95 at 0.1 MPa, Debian
 // python3-iapws 1.5.3): t/°C, c_p/(J g⁻¹ K⁻¹), h/(kJ/kg = J/g).
 //
@@ -459,11 +472,12 @@ func TestCombineSharedWaterScale(t *testing.T) {
 	r := &Rise{DeltaT: 12, UDeltaT: 0.01, DoF: math.Inf(1), InitialTemperature: 293.15, FinalTemperature: 305.15,
 		MeanTemperature: 299.15}
 	mx := &Mixing{ColdMass: 50, HotMass: 50, HotTemperature: 318.15}
-	a, err := CalibrateRun(r, CalibrationSetup{RunID: "a", Mixing: mx})
+	exact := 1e-12 // g: weighings taken as exact here
+	a, err := CalibrateRun(r, CalibrationSetup{RunID: "a", Mixing: mx, UMass: exact})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, _ := CalibrateRun(r, CalibrationSetup{RunID: "b", Mixing: mx})
+	b, _ := CalibrateRun(r, CalibrationSetup{RunID: "b", Mixing: mx, UMass: exact})
 	cal, err := Combine([]*CalibrationRun{a, b}, time.Time{}, "")
 	if err != nil {
 		t.Fatal(err)

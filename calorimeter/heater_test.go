@@ -2,6 +2,7 @@ package calorimeter
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -122,4 +123,28 @@ func TestHeaterPulsesErrors(t *testing.T) {
 			}
 		})
 	}
+}
+
+func ExampleHeaterPulses() {
+	// A heater-power column read every 10 s: 1.000 W from 120 s to 230 s,
+	// blank while off, as many loggers write it.
+	var t, p []float64
+	for k := 0; k <= 40; k++ {
+		t = append(t, float64(10*k))
+		v := math.NaN()
+		if k >= 12 && k <= 23 {
+			v = 1.000
+		}
+		p = append(p, v)
+	}
+	ps, err := HeaterPulses(t, p)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, h := range ps {
+		fmt.Printf("on %.0f s, off %.0f s: %.1f ± %.1f J at %.3f W\n", h.On, h.Off, h.Energy, h.UEnergy, h.MeanPower)
+	}
+	// Output:
+	// on 115 s, off 235 s: 120.0 ± 4.1 J at 1.000 W
 }
