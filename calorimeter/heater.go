@@ -20,6 +20,20 @@ type HeaterPulse struct {
 	Readings        int     // power readings taken while on
 }
 
+// heaterOnFraction is the part of the way from the off-level to the
+// on-level that a reading must pass to count as on.
+const heaterOnFraction = 0.2
+
+// heaterMedian returns the median of v (not empty); v is reordered.
+func heaterMedian(v []float64) float64 {
+	sort.Float64s(v)
+	n := len(v)
+	if n%2 == 1 {
+		return v[n/2]
+	}
+	return (v[n/2-1] + v[n/2]) / 2
+}
+
 // heaterMinReadings is the fewest on-readings a pulse must have: fewer is a
 // glitch of the column rather than a heating period. heaterMaxGap is the
 // longest run of blank readings bridged inside a heating period.
@@ -31,14 +45,20 @@ const (
 // HeaterPulses finds the periods a heater-power column p (W), read at the
 // times t (s, increasing), shows the heater on, and integrates each.
 //
-// A reading is "on" when it exceeds half of the on-level, the median of
-// the readings above half the largest one; so a small offset or noise while
-// the heater is off, or a single high reading, does not move the edges.
-// Blank (NaN) readings are what many loggers write while the heater is
-// off: next to a heating period they count as 0 W; inside one, a run of
-// up to heaterMaxGap of them is bridged (the integral runs over the
-// readings on either side), and a longer run ends the period. Each edge is
-// put halfway between the last reading on one side and the first on the
+// A reading is "on" when it exceeds the off-level by a fifth of the
+// on-level: the on-level is the median of the readings above half the
+// third largest, the off-level the median of the others. So a small
+// offset or noise while the heater is off, or a glitch of one or two
+// readings, does not move the edges, and a log may hold heating periods
+// of different powers down to a fifth of the strongest (calibrations at
+// several energies, DOMAIN §3).
+//
+// Blank readings (NaN; infinite ones are taken as blank) are what many
+// loggers write while the heater is off: next to a heating period they
+// count as 0 W; inside one, a run of up to heaterMaxGap of them is bridged
+// (the integral runs over the readings on either side), and a longer run
+// ends the period. Each edge is put halfway between the last reading on
+// one side and the first on the
 // other. The energy of a period is the trapezoid-rule integral of the
 // column from the reading before its first on-reading to the one after its
 // last,
@@ -56,23 +76,37 @@ func HeaterPulses(t, p []float64) ([]HeaterPulse, error) {
 	if len(t) != len(p) || len(t) < 3 {
 		return nil, fmt.Errorf("%w: need at least 3 readings aligned with the times, got %d times and %d readings", ErrHeaterColumn, len(t), len(p))
 	}
-	maxP := math.Inf(-1)
-	for _, v := range p {
-		if !math.IsNaN(v) && v > maxP {
-			maxP = v
+	// Readings that are not finite are taken as blank.
+	p = append([]float64(nil), p...)
+	var finite []float64
+	for k, v := range p {
+		if math.IsInf(v, 0) {
+			p[k] = math.NaN()
+		} else if !math.IsNaN(v) {
+			finite = append(finite, v)
 		}
 	}
-	if !(maxP > 0) || math.IsInf(maxP, 1) {
+	sort.Float64s(finite)
+	if len(finite) == 0 || !(finite[len(finite)-1] > 0) {
 		return nil, fmt.Errorf("%w: the heater is never on (no positive, finite power readings)", ErrHeaterColumn)
 	}
-	var high []float64
-	for _, v := range p {
-		if v > maxP/2 {
+	// The top of the scale is the heaterMinReadings-th largest reading, so
+	// that a glitch of fewer readings cannot set it.
+	top := finite[max(len(finite)-heaterMinReadings, 0)]
+	var high, low []float64
+	for _, v := range finite {
+		switch {
+		case v > top/2:
 			high = append(high, v)
+		default:
+			low = append(low, v)
 		}
 	}
-	sort.Float64s(high)
-	threshold := high[len(high)/2] / 2
+	level, off := heaterMedian(high), 0.0
+	if len(low) > 0 {
+		off = heaterMedian(low)
+	}
+	threshold := off + heaterOnFraction*(level-off)
 
 	on := func(k int) bool { return !math.IsNaN(p[k]) && p[k] > threshold }
 	var out []HeaterPulse

@@ -103,6 +103,42 @@ func TestHeaterPulsesTwo(t *testing.T) {
 	}
 }
 
+func TestHeaterPulsesLevels(t *testing.T) {
+	// Calibrations at two energies in one log (DOMAIN §3: several
+	// energies), 0.2 W and 0.8 W for 100 s each, the off readings 2 mW
+	// with ±1 mW noise, and one spurious 3 W reading inside the second
+	// period. analytic: Q = P·t_h = 20 J and 80 J (+ the 2 mW offset in
+	// the two edge half-intervals, and the spike's extra 2.2 W over one
+	// 10 s reading).
+	var tt, p []float64
+	for k := 0; k <= 100; k++ {
+		tk := float64(10 * k)
+		v := 0.002 + 0.001*float64(1-2*(k%2))
+		switch {
+		case tk >= 200 && tk < 300:
+			v = 0.2
+		case tk >= 600 && tk < 700:
+			v = 0.8
+		}
+		tt, p = append(tt, tk), append(p, v)
+	}
+	p[65] = 3
+	ps, err := HeaterPulses(tt, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ps) != 2 {
+		t.Fatalf("%d heating periods, want 2", len(ps))
+	}
+	// Neighbours of the edges: k = 19 and 59 read 0.001 W, k = 30 and 70
+	// read 0.003 W: (0.001 + 0.003)/2·10 J = 0.02 J for each period.
+	for i, want := range []struct{ on, off, q float64 }{{195, 295, 20 + 0.02}, {595, 695, 80 + 0.02 + 22}} {
+		if h := ps[i]; h.On != want.on || h.Off != want.off || !chainClose(h.Energy, want.q, 1e-9, 0) {
+			t.Errorf("period %d: %g–%g s, %.6g J; want %g–%g s, %.6g J", i+1, h.On, h.Off, h.Energy, want.on, want.off, want.q)
+		}
+	}
+}
+
 func TestHeaterPulsesErrors(t *testing.T) {
 	nan := math.NaN()
 	for _, tc := range []struct {
@@ -113,6 +149,7 @@ func TestHeaterPulsesErrors(t *testing.T) {
 		{"misaligned", []float64{0, 1, 2}, []float64{0, 1}, "aligned"},
 		{"never on", []float64{0, 1, 2, 3}, []float64{0, 0, nan, 0}, "never on"},
 		{"all blank", []float64{0, 1, 2}, []float64{nan, nan, nan}, "never on"},
+		{"infinite readings are blank", []float64{0, 1, 2}, []float64{math.Inf(1), 0, math.Inf(1)}, "never on"},
 		{"a glitch, not a heating period", []float64{0, 1, 2, 3, 4}, []float64{0, 0, 1, 0, 0}, "only 1 reading"},
 		{"a long blank run splits the period", []float64{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, []float64{0, 1, 1, nan, nan, nan, 1, 1, 1, 0}, "only 2 reading"},
 	} {
