@@ -766,3 +766,57 @@ func ExampleCombine() {
 	// Output:
 	// ε = 500.5 ± 0.5 J/K from 2 runs, Birge ratio 1.30 (pass)
 }
+
+// FuzzReadCalibration: no input may panic; every error says whether the
+// file is unusable or edited; what reads writes back and reads again to
+// the same heat capacity. The seeds are whole files of a few kB, so
+// minimising a new input takes long: run with a short -fuzzminimizetime,
+//
+//	go test -run XXX -fuzz FuzzReadCalibration -fuzztime 10s -fuzzminimizetime 2s ./calorimeter/
+func FuzzReadCalibration(f *testing.F) {
+	for _, dT := range []float64{0.3, 0.2994} {
+		r := &Rise{DeltaT: dT, UDeltaT: 0.0003, DoF: 40, MeanTemperature: 298.15}
+		run, err := CalibrateRun(r, CalibrationSetup{RunID: "f", ContentsMass: 100,
+			Electrical: &Electrical{Power: 0.5, UPower: 0.0002, Time: 300, UTime: 0.05}})
+		if err != nil {
+			f.Fatal(err)
+		}
+		cal, _ := Combine([]*CalibrationRun{run}, time.Time{}, "")
+		var buf bytes.Buffer
+		if err := WriteCalibration(&buf, cal); err != nil {
+			f.Fatal(err)
+		}
+		f.Add(buf.Bytes())
+	}
+	mix := &Rise{DeltaT: 12, UDeltaT: 0.01, DoF: 30, InitialTemperature: 293.15, FinalTemperature: 305.15,
+		UInitial: 0.01, UFinal: 0.012, CovInitialFinal: 6e-5, MeanTemperature: 299.15}
+	run, err := CalibrateRun(mix, CalibrationSetup{RunID: "m", Mixing: &Mixing{ColdMass: 50, HotMass: 50, HotTemperature: 318.15}})
+	if err != nil {
+		f.Fatal(err)
+	}
+	cal, _ := Combine([]*CalibrationRun{run}, time.Time{}, "")
+	var buf bytes.Buffer
+	_ = WriteCalibration(&buf, cal)
+	f.Add(buf.Bytes())
+	f.Add([]byte(`{"calred_calibration_format": 1, "kind": "calibration", "runs": [{}]}`))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		cal, err := ReadCalibration(bytes.NewReader(b))
+		if err != nil {
+			if !errors.Is(err, ErrCalibrationFile) && !errors.Is(err, ErrCalibrationEdited) {
+				t.Fatalf("error %v wraps neither ErrCalibrationFile nor ErrCalibrationEdited", err)
+			}
+			return
+		}
+		var out bytes.Buffer
+		if err := WriteCalibration(&out, cal); err != nil {
+			return // numbers JSON cannot hold (the reader accepted them as they were)
+		}
+		back, err := ReadCalibration(&out)
+		if err != nil {
+			t.Fatalf("what was read does not read back: %v", err)
+		}
+		if back.HeatCapacity != cal.HeatCapacity || back.UHeatCapacity != cal.UHeatCapacity {
+			t.Fatalf("read back ε %g ± %g, was %g ± %g", back.HeatCapacity, back.UHeatCapacity, cal.HeatCapacity, cal.UHeatCapacity)
+		}
+	})
+}
