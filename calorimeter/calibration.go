@@ -859,9 +859,10 @@ const (
 // contents mass, balance uncertainty); its Electrical, Chemical and Mixing
 // must be nil. Run k is named RunID-pulse<k>. Consecutive pulses are
 // compared (calPulseWarnZ, calPulseFailZ) and the check is added to the
-// later run. The two windows share readings, so the runs' ΔT are slightly
-// anticorrelated; the comparison ignores that, which makes it a little
-// stricter than it need be.
+// later run. The two windows share readings — noise that raises the shared
+// part raises the first ΔT and lowers the second — so the runs' ΔT are
+// anticorrelated; the comparison and Combine ignore that, which makes the
+// comparison a little stricter and u(ε̄) a little larger than they need be.
 func CalibratePulses(t, theta []float64, pulses []Pulse, s CalibrationSetup, opt RiseOptions) (*PulseCalibration, error) {
 	switch {
 	case len(pulses) == 0:

@@ -410,6 +410,7 @@ func TestCombine(t *testing.T) {
 		// w_i = 1/u_i², ε̄ = Σw_i ε_i/Σw_i, χ² = Σ(ε_i − ε̄)²/u_i²,
 		// R_B = √(χ²/(n−1)), u = max(1, R_B)/√Σw_i (Birge 1932).
 		mean, u, birge float64
+		sd             float64 // sample SD of the ε_i about their plain mean
 		status         Status
 	}{
 		{
@@ -418,7 +419,8 @@ func TestCombine(t *testing.T) {
 			// R_B = 1.526290; u = 1.526290/√11.99206 = 0.440748 J/K.
 			name: "three runs scattering a little more than their u",
 			runs: []in{{150, 0.3, 0.0003}, {150.3, 0.3, 0.0003}, {149.85, 0.3, 0.0003}},
-			mean: 500.165113, u: 0.440748, birge: 1.526290, status: Pass,
+			// sd: deviations −1/6, 5/6, −2/3 J/K from 500.1667, √(7/12) = 0.763763 J/K.
+			mean: 500.165113, u: 0.440748, birge: 1.526290, sd: 0.763763, status: Pass,
 		},
 		{
 			// ε = 500, 500.2 J/K; u = 1, 1.0004 J/K; w = 1, 0.999200;
@@ -426,7 +428,7 @@ func TestCombine(t *testing.T) {
 			// inflation, u = 1/√1.999200 = 0.707248 J/K.
 			name: "two consistent runs",
 			runs: []in{{150, 0.3, 0.0006}, {150.06, 0.3, 0.0006}},
-			mean: 500.099960, u: 0.707248, birge: 0.141393, status: Pass,
+			mean: 500.099960, u: 0.707248, birge: 0.141393, sd: 0.2 / math.Sqrt2, status: Pass,
 		},
 		{
 			// ε = 500, 504 J/K, u = 0.5, 0.504 J/K; w = 4, 3.936760;
@@ -434,7 +436,7 @@ func TestCombine(t *testing.T) {
 			// u = 5.634272/√7.936760 = 1.999937 J/K.
 			name: "two runs far apart",
 			runs: []in{{150, 0.3, 0.0003}, {151.2, 0.3, 0.0003}},
-			mean: 501.984064, u: 1.999937, birge: 5.634272, status: Warn,
+			mean: 501.984064, u: 1.999937, birge: 5.634272, sd: 4 / math.Sqrt2, status: Warn,
 		},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -449,8 +451,8 @@ func TestCombine(t *testing.T) {
 			if !chainClose(cal.HeatCapacity, tc.mean, 2e-4, 0) {
 				t.Errorf("ε̄ = %.5f J/K, hand calculation %.5f J/K", cal.HeatCapacity, tc.mean)
 			}
-			if cal.Scatter == nil || !chainClose(cal.Scatter.BirgeRatio, tc.birge, 0, 1e-4) {
-				t.Errorf("scatter %+v, want Birge ratio %.5f", cal.Scatter, tc.birge)
+			if cal.Scatter == nil || !chainClose(cal.Scatter.BirgeRatio, tc.birge, 0, 1e-4) || !chainClose(cal.Scatter.SDJPerK, tc.sd, 0, 1e-5) {
+				t.Errorf("scatter %+v, want Birge ratio %.5f and sd %.6f J/K", cal.Scatter, tc.birge, tc.sd)
 			}
 			if !chainClose(cal.UHeatCapacity, tc.u, 0, 1e-4) {
 				t.Errorf("u(ε̄) = %.5f J/K, hand calculation %.5f J/K", cal.UHeatCapacity, tc.u)

@@ -23,7 +23,10 @@ const calibrateAbout = `Reduce calibration runs to the calorimeter's heat capaci
                come from the drift lines of the log)
 --contents-mass splits off the vessel's own heat capacity so it can be reused with other
 fills. Several LOGs are combined as a weighted mean; -o writes the calibration file that
-"calred reduce --cal FILE" reads.
+"calred reduce --cal FILE" reads. A heater-power column that shows the heater on more
+than once (calibrations before and after a sample) gives one run per heating period,
+each reduced on its own part of the log; consecutive periods are compared (warn beyond
+2, fail beyond 3 combined standard uncertainties) and all are combined.
 
 Caution: heaters and mains-powered supplies need your lab's electrical safety rules; hot
 water scalds. Follow your lab's local rules and licensed practice.`
