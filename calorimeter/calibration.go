@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 )
@@ -58,8 +59,8 @@ type CalibrationSetup struct {
 	Chemical            *ChemicalCalibration
 	Mixing              *Mixing
 	ContentsMass        float64 // g of liquid present (0 = unknown); mixing runs know it
-	UContentsMass       float64
-	UMass               float64 // balance standard uncertainty, g
+	UContentsMass       float64 // g (0 = UMass)
+	UMass               float64 // balance standard uncertainty of every weighing without its own, g (0 = DefaultUMass)
 }
 
 // StoredInput is an input of a calibration's measurement model as written to
@@ -153,110 +154,125 @@ type ScatterSummary struct {
 //	standard:    ε = −(m/M)·ΔH(T, m)/ΔT          (heat given to the vessel q = −n·ΔH = ε·ΔT)
 //	mixing:      C_v = k_cp·{m_h[h(T_h) − h(T_f)] − m_c[h(T_f) − h(T_c)]}/(T_f − T_c)   (DOMAIN §3)
 //	             ε = C_v + k_cp·(m_c + m_h)·c_p(T_f)
-//	vessel part: C_v = ε − k_cp·m_w·c_p(T_cal)   when the contents mass m_w is known
+//	vessel part: C_v = ε − k_cp·m_w,cal·c_p(T_cal)   when the contents mass m_w,cal is known
 //
 // with h the specific enthalpy of water and c_p its specific heat at 0.1 MPa
 // (IAPWS-95 fit, DOMAIN §4) and k_cp = 1 ± u a common scale on that fit.
+// The heat put in is q = P·t_h (V·I·t_h, Q_el), q = −n·ΔH, and for mixing
+// the heat the hot water gives up, q = k_cp·m_h[h(T_h) − h(T_f)].
 type calRunModel struct {
-	eps, vessel func(x []float64) float64
+	eps, vessel, heat Model
 }
 
-// build adds the run's inputs to c and returns its model. offsetless: the
-// closures index into the full input vector of the chain.
-func (r *CalibrationRun) build(c *chain, kcp int) (calRunModel, error) {
-	idx := map[string]int{}
+// build adds the run's inputs to c and returns its model; the closures
+// index into the full input vector of the chain, and kcp is the index of
+// the chain's shared k_cp. A non-empty tag (the run's place in a combined
+// calibration) is appended to the symbols and the run ID to the names, so
+// that the inputs of several runs stay apart in a budget.
+func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, error) {
+	idx := map[string]int{"k_cp": kcp}
 	for _, s := range r.Inputs {
 		if s.Symbol == "k_cp" {
-			idx["k_cp"] = kcp
 			continue
+		}
+		if _, dup := idx[s.Symbol]; dup {
+			return calRunModel{}, fmt.Errorf("%s: model input %q given twice", calWho(r.RunID), s.Symbol)
 		}
 		in := Input{Name: s.Name, Symbol: s.Symbol, Unit: s.Unit, Value: s.Value, U: s.U, DoF: s.DoF, Dist: distFromName(s.Dist)}
 		if in.DoF <= 0 {
 			in.DoF = math.Inf(1)
 		}
+		if tag != "" {
+			in.Symbol += "[" + tag + "]"
+			in.Name += " (run " + r.RunID + ")"
+		}
 		idx[s.Symbol] = c.add(in)
-	}
-	if _, ok := idx["k_cp"]; !ok {
-		idx["k_cp"] = kcp
 	}
 	for _, p := range r.Correlations {
 		i, ok1 := idx[p.A]
 		j, ok2 := idx[p.B]
-		if ok1 && ok2 {
-			c.correlate(i, j, p.R)
+		if !ok1 || !ok2 {
+			return calRunModel{}, fmt.Errorf("%s: correlation between %q and %q names an input the run does not have", calWho(r.RunID), p.A, p.B)
 		}
+		c.correlate(i, j, p.R)
 	}
 	need := func(syms ...string) error {
 		for _, s := range syms {
 			if _, ok := idx[s]; !ok {
-				return fmt.Errorf("calibration run %s: model input %q missing", r.RunID, s)
+				return fmt.Errorf("%s: model input %q missing", calWho(r.RunID), s)
 			}
 		}
 		return nil
 	}
 	var m calRunModel
-	tcal := r.MeanTemperature
 	switch r.Method {
 	case MethodElectrical:
-		var q func(x []float64) float64
 		switch r.Variant {
 		case "power-time":
 			if err := need("P", "t_h", "ΔT_cal"); err != nil {
 				return m, err
 			}
 			p, t := idx["P"], idx["t_h"]
-			q = func(x []float64) float64 { return x[p] * x[t] }
+			m.heat = func(x []float64) float64 { return x[p] * x[t] }
 		case "voltage-current":
 			if err := need("V", "I", "t_h", "ΔT_cal"); err != nil {
 				return m, err
 			}
 			v, i, t := idx["V"], idx["I"], idx["t_h"]
-			q = func(x []float64) float64 { return x[v] * x[i] * x[t] }
+			m.heat = func(x []float64) float64 { return x[v] * x[i] * x[t] }
 		case "power-column":
 			if err := need("Q_el", "ΔT_cal"); err != nil {
 				return m, err
 			}
 			qi := idx["Q_el"]
-			q = func(x []float64) float64 { return x[qi] }
+			m.heat = func(x []float64) float64 { return x[qi] }
 		default:
-			return m, fmt.Errorf("calibration run %s: unknown electrical variant %q", r.RunID, r.Variant)
+			return m, fmt.Errorf("%s: unknown electrical variant %q", calWho(r.RunID), r.Variant)
 		}
-		dt := idx["ΔT_cal"]
-		m.eps = func(x []float64) float64 { return q(x) / x[dt] }
 	case MethodStandard:
 		if r.Variant == "amount" {
 			if err := need("n_std", "ΔH_std", "ΔT_cal"); err != nil {
 				return m, err
 			}
-			n, dh, dt := idx["n_std"], idx["ΔH_std"], idx["ΔT_cal"]
-			m.eps = func(x []float64) float64 { return -x[n] * x[dh] / x[dt] }
+			n, dh := idx["n_std"], idx["ΔH_std"]
+			m.heat = func(x []float64) float64 { return -x[n] * x[dh] }
 			break
 		}
 		if err := need("m_std", "M_std", "ΔH_std", "ΔT_cal"); err != nil {
 			return m, err
 		}
-		ms, mm, dh, dt := idx["m_std"], idx["M_std"], idx["ΔH_std"], idx["ΔT_cal"]
-		m.eps = func(x []float64) float64 { return -(x[ms] / x[mm]) * x[dh] / x[dt] }
+		ms, mm, dh := idx["m_std"], idx["M_std"], idx["ΔH_std"]
+		m.heat = func(x []float64) float64 { return -(x[ms] / x[mm]) * x[dh] }
 	case MethodMixing:
 		if err := need("m_c", "m_h", "T_h", "T_c", "T_f"); err != nil {
 			return m, err
 		}
-		mc, mh, th, tc, tf, k := idx["m_c"], idx["m_h"], idx["T_h"], idx["T_c"], idx["T_f"], idx["k_cp"]
-		m.vessel = func(x []float64) float64 {
+		mc, mh, th, tc, tf, k := idx["m_c"], idx["m_h"], idx["T_h"], idx["T_c"], idx["T_f"], kcp
+		vessel := func(x []float64) float64 {
 			return x[k] * (x[mh]*WaterEnthalpyChange(x[tf], x[th]) - x[mc]*WaterEnthalpyChange(x[tc], x[tf])) / (x[tf] - x[tc])
 		}
-		m.eps = func(x []float64) float64 {
-			return m.vessel(x) + x[k]*(x[mc]+x[mh])*WaterCp(x[tf])
-		}
+		m.vessel = vessel
+		m.eps = func(x []float64) float64 { return vessel(x) + x[k]*(x[mc]+x[mh])*WaterCp(x[tf]) }
+		m.heat = func(x []float64) float64 { return x[k] * x[mh] * WaterEnthalpyChange(x[tf], x[th]) }
 		return m, nil
 	default:
-		return m, fmt.Errorf("calibration run %s: unknown calibration method %q", r.RunID, r.Method)
+		return m, fmt.Errorf("%s: unknown calibration method %q", calWho(r.RunID), r.Method)
 	}
-	if w, ok := idx["m_w"]; ok {
-		eps, k, cp := m.eps, idx["k_cp"], WaterCp(tcal)
-		m.vessel = func(x []float64) float64 { return eps(x) - x[k]*x[w]*cp }
+	heat, dt := m.heat, idx["ΔT_cal"]
+	m.eps = func(x []float64) float64 { return heat(x) / x[dt] }
+	if w, ok := idx["m_w,cal"]; ok {
+		eps, cp := m.eps, WaterCp(r.MeanTemperature)
+		m.vessel = func(x []float64) float64 { return eps(x) - x[kcp]*x[w]*cp }
 	}
 	return m, nil
+}
+
+// calWho names a calibration run in an error.
+func calWho(id string) string {
+	if id == "" {
+		return "calibration"
+	}
+	return "calibration " + id
 }
 
 func distFromName(s string) Distribution {
@@ -297,6 +313,10 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 	if rise == nil {
 		return nil, errors.New("calibration: no temperature analysis")
 	}
+	who := calWho(s.RunID)
+	if s.UMass == 0 {
+		s.UMass = DefaultUMass
+	}
 	r := &CalibrationRun{RunID: s.RunID, File: s.File, SHA256: s.SHA256, Points: rise.Points,
 		CorrectionMethod: rise.Method, MixTime: rise.MixTime, DeltaT: rise.DeltaT, UDeltaT: rise.UDeltaT,
 		MeanTemperature: rise.MeanTemperature, Rise: rise}
@@ -314,7 +334,7 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		kinds++
 	}
 	if kinds != 1 {
-		return nil, fmt.Errorf("calibration %s: give exactly one kind of calibration (electrical, standard or mixing), got %d", s.RunID, kinds)
+		return nil, fmt.Errorf("%s: give exactly one kind of calibration (electrical, standard or mixing), got %d", who, kinds)
 	}
 	switch {
 	case s.Electrical != nil:
@@ -336,7 +356,7 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 				Input{Name: "heater current", Symbol: "I", Unit: "A", Value: e.Current, U: e.UCurrent, Dist: Normal},
 				Input{Name: "heating time", Symbol: "t_h", Unit: "s", Value: e.Time, U: e.UTime, Dist: Normal})
 		default:
-			return nil, fmt.Errorf("electrical calibration %s: give heater power and time, voltage, current and time, or a heater-power column", s.RunID)
+			return nil, fmt.Errorf("%s: electrical: give heater power and time, voltage, current and time, or a heater-power column", who)
 		}
 		ins = append(ins, dT)
 		if rise.DeltaT <= 0 {
@@ -348,16 +368,13 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		r.Method = MethodStandard
 		r.StandardName, r.StandardSource = ch.Standard.Name, ch.Standard.Source
 		M := ch.Standard.MolarMass
-		weighed := ch.Standard.Weighed || ch.Amount == 0
+		weighed := ch.Standard.Weighed
 		if weighed {
 			if err := chainNeedPositive("standard mass", ch.Mass, "g"); err != nil {
-				return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+				return nil, fmt.Errorf("%s: %w", who, err)
 			}
 		} else if err := chainNeedPositive("amount of the limiting reagent", ch.Amount, "mol"); err != nil {
-			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
-		}
-		if !ch.Standard.Weighed && ch.Amount == 0 {
-			return nil, fmt.Errorf("calibration %s: standard %s is not weighed: give the amount of the limiting reagent (--amount, mol)", s.RunID, ch.Standard.Name)
+			return nil, fmt.Errorf("%s: standard %s is not weighed: %w", who, ch.Standard.Name, err)
 		}
 		molality := 0.0
 		if ch.SolventMass > 0 && weighed {
@@ -365,7 +382,7 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		}
 		h, uh, err := ch.Standard.EnthalpyAt(rise.MeanTemperature, molality)
 		if err != nil {
-			return nil, fmt.Errorf("calibration %s: standard %s: %w", s.RunID, ch.Standard.Name, err)
+			return nil, fmt.Errorf("%s: standard %s: %w", who, ch.Standard.Name, err)
 		}
 		uM := 0.0
 		if ch.Standard.Formula != "" {
@@ -397,18 +414,18 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		mx := s.Mixing
 		r.Method = MethodMixing
 		if err := chainNeedPositive("cold water mass", mx.ColdMass, "g"); err != nil {
-			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+			return nil, fmt.Errorf("%s: %w", who, err)
 		}
 		if err := chainNeedPositive("hot water mass", mx.HotMass, "g"); err != nil {
-			return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
+			return nil, fmt.Errorf("%s: %w", who, err)
 		}
 		if mx.HotTemperature <= rise.FinalTemperature {
-			return nil, fmt.Errorf("calibration %s: hot water at %.2f °C is not warmer than the final temperature %.2f °C",
-				s.RunID, mx.HotTemperature-273.15, rise.FinalTemperature-273.15)
+			return nil, fmt.Errorf("%s: hot water at %.2f °C is not warmer than the final temperature %.2f °C",
+				who, mx.HotTemperature-273.15, rise.FinalTemperature-273.15)
 		}
 		for _, t := range []float64{mx.HotTemperature, rise.InitialTemperature, rise.FinalTemperature} {
 			if !WaterValid(t) {
-				return nil, fmt.Errorf("calibration %s: water at %.2f °C is outside the 0–60 °C range of the water properties", s.RunID, t-273.15)
+				return nil, fmt.Errorf("%s: water at %.2f °C is outside the 0–60 °C range of the water properties", who, t-273.15)
 			}
 		}
 		uc, uh := mx.UColdMass, mx.UHotMass
@@ -422,10 +439,17 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 			massInput("cold water mass", "m_c", mx.ColdMass, uc),
 			massInput("hot water mass", "m_h", mx.HotMass, uh),
 			Input{Name: "hot water temperature", Symbol: "T_h", Unit: "K", Value: mx.HotTemperature, U: mx.UHotTemperature, Dist: Normal},
-			Input{Name: "cold temperature at mixing (fore line)", Symbol: "T_c", Unit: "K", Value: rise.InitialTemperature, U: rise.UInitial, Dist: Normal},
-			Input{Name: "final temperature at mixing (after line)", Symbol: "T_f", Unit: "K", Value: rise.FinalTemperature, U: rise.UFinal, Dist: Normal},
+			// T_c and T_f carry the ν_eff of the run's analysis (an
+			// approximation: each has its own mixture of fore, after and
+			// probe terms); they stay normal because they are correlated.
+			Input{Name: "cold temperature at mixing (fore line)", Symbol: "T_c", Unit: "K", Value: rise.InitialTemperature, U: rise.UInitial, DoF: riseDoF(rise), Dist: Normal},
+			Input{Name: "final temperature at mixing (after line)", Symbol: "T_f", Unit: "K", Value: rise.FinalTemperature, U: rise.UFinal, DoF: riseDoF(rise), Dist: Normal},
 			cpScaleInput(rise.FinalTemperature))
 		r.ContentsMass = mx.ColdMass + mx.HotMass
+		if !(rise.DeltaT > 0) {
+			r.Checks = append(r.Checks, Check{Name: "calibration-sign", Status: Fail,
+				Detail: fmt.Sprintf("adding hot water must warm the vessel, but ΔT = %.4g K", rise.DeltaT)})
+		}
 		if rise.CovInitialFinal != 0 {
 			r.Correlations = append(r.Correlations, StoredCorrelation{A: "T_c", B: "T_f", R: chainCorr(rise.UInitial, rise.UFinal, rise.CovInitialFinal)})
 		}
@@ -436,37 +460,52 @@ func CalibrateRun(rise *Rise, s CalibrationSetup) (*CalibrationRun, error) {
 		if uw == 0 {
 			uw = s.UMass
 		}
-		ins = append(ins, massInput("liquid mass during calibration", "m_w", s.ContentsMass, uw), cpScaleInput(rise.MeanTemperature))
+		ins = append(ins, massInput("liquid mass during calibration", "m_w,cal", s.ContentsMass, uw), cpScaleInput(rise.MeanTemperature))
 	}
 	for _, in := range ins {
 		r.Inputs = append(r.Inputs, storeInput(in))
 	}
-	// Evaluate the run on its own.
-	var c chain
-	kcp := c.add(cpScaleInput(rise.MeanTemperature))
-	m, err := r.build(&c, kcp)
-	if err != nil {
+	if err := r.evaluate(); err != nil {
 		return nil, err
-	}
-	b, err := Propagate(c.inputs, c.correlation(), m.eps, 0.95)
-	if err != nil {
-		return nil, fmt.Errorf("calibration %s: %w", s.RunID, err)
-	}
-	r.Budget = b
-	r.HeatCapacity, r.UHeatCapacity = b.Value, b.U
-	r.Heat = r.HeatCapacity * r.DeltaT
-	r.UHeat = math.Abs(r.Heat) * math.Hypot(r.UHeatCapacity/r.HeatCapacity, rise.UDeltaT/rise.DeltaT)
-	if m.vessel != nil {
-		vb, err := Propagate(c.inputs, c.correlation(), m.vessel, 0.95)
-		if err != nil {
-			return nil, fmt.Errorf("calibration %s: vessel part: %w", s.RunID, err)
-		}
-		v, uv := vb.Value, vb.U
-		r.Vessel, r.UVessel = &v, &uv
 	}
 	r.Checks = append(r.Checks, calHeatCapacityChecks(r)...)
 	r.Status = Worst(r.Checks)
 	return r, nil
+}
+
+// evaluate computes the run's heat capacity, vessel part and heat from its
+// stored inputs alone, with their budgets.
+func (r *CalibrationRun) evaluate() error {
+	var c chain
+	kcp := c.add(cpScaleInput(r.MeanTemperature))
+	m, err := r.build(&c, kcp, "")
+	if err != nil {
+		return err
+	}
+	corr := c.correlation()
+	b, err := Propagate(c.inputs, corr, m.eps, 0.95)
+	if err != nil {
+		return fmt.Errorf("%s: %w", calWho(r.RunID), err)
+	}
+	r.Budget = b
+	r.HeatCapacity, r.UHeatCapacity = b.Value, b.U
+	// The heat is propagated through its own model: ε and ΔT are
+	// correlated (ε = q/ΔT), so u(q) is not u(ε) and u(ΔT) combined.
+	qb, err := Propagate(c.inputs, corr, m.heat, 0.95)
+	if err != nil {
+		return fmt.Errorf("%s: heat: %w", calWho(r.RunID), err)
+	}
+	r.Heat, r.UHeat = qb.Value, qb.U
+	r.Vessel, r.UVessel = nil, nil
+	if m.vessel != nil {
+		vb, err := Propagate(c.inputs, corr, m.vessel, 0.95)
+		if err != nil {
+			return fmt.Errorf("%s: vessel part: %w", calWho(r.RunID), err)
+		}
+		v, uv := vb.Value, vb.U
+		r.Vessel, r.UVessel = &v, &uv
+	}
+	return nil
 }
 
 func calHeatCapacityChecks(r *CalibrationRun) []Check {
@@ -487,10 +526,15 @@ func calHeatCapacityChecks(r *CalibrationRun) []Check {
 }
 
 // Combine merges calibration runs into one calibration: the weighted mean
-// of the runs' heat capacities with weights 1/u_i², its uncertainty from the
-// whole chain of inputs, and the between-run scatter compared with the
-// runs' own uncertainties (ScatterSummary). The vessel part is combined the
-// same way when every run has one.
+// of the runs' heat capacities with weights 1/u_i²,
+//
+//	ε̄ = Σ w_i ε_i / Σ w_i,   w_i = 1/u²(ε_i)
+//
+// with its uncertainty propagated through the whole chain of the runs'
+// inputs (so that an input they share, the scale k_cp on water's c_p, is
+// counted once), and the between-run scatter compared with the runs' own
+// uncertainties (ScatterSummary). The vessel part is combined the same way
+// when every run has one.
 func Combine(runs []*CalibrationRun, created time.Time, version string) (*Calibration, error) {
 	if len(runs) == 0 {
 		return nil, errors.New("calibration: no runs")
@@ -522,25 +566,28 @@ func Combine(runs []*CalibrationRun, created time.Time, version string) (*Calibr
 // its inputs and checked).
 func (cal *Calibration) evaluate() error {
 	var c chain
-	eps, vessel, err := cal.model(&c)
+	m, err := cal.model(&c)
 	if err != nil {
 		return err
 	}
-	b, err := Propagate(c.inputs, c.correlation(), eps, 0.95)
+	corr := c.correlation()
+	b, err := Propagate(c.inputs, corr, m.eps, 0.95)
 	if err != nil {
 		return fmt.Errorf("calibration: %w", err)
 	}
 	cal.HeatCapacity, cal.UHeatCapacity, cal.DoF = b.Value, b.U, finiteDoF(b.DoF)
-	if vessel != nil {
-		vb, err := Propagate(c.inputs, c.correlation(), vessel, 0.95)
+	cal.Vessel, cal.UVessel = nil, nil
+	if m.vessel != nil {
+		vb, err := Propagate(c.inputs, corr, m.vessel, 0.95)
 		if err != nil {
 			return fmt.Errorf("calibration: vessel part: %w", err)
 		}
 		v, uv := vb.Value, vb.U
 		cal.Vessel, cal.UVessel = &v, &uv
 	}
+	cal.Scatter = m.scatter
 	var sumT, sumTemp, sumM float64
-	cal.Checks = cal.Checks[:0]
+	cal.Checks = nil
 	for i := range cal.Runs {
 		r := &cal.Runs[i]
 		sumT += r.DeltaT
@@ -559,6 +606,9 @@ func (cal *Calibration) evaluate() error {
 	if cal.Scatter != nil {
 		st := Pass
 		detail := fmt.Sprintf("%d runs: Birge ratio %.2f (scatter between runs consistent with their uncertainties)", cal.Scatter.Runs, cal.Scatter.BirgeRatio)
+		if cal.Scatter.BirgeRatio > 1 {
+			detail = fmt.Sprintf("%d runs: Birge ratio %.2f; u(ε) inflated by it to cover the scatter between runs", cal.Scatter.Runs, cal.Scatter.BirgeRatio)
+		}
 		if cal.Scatter.BirgeRatio > 2 {
 			st = Warn
 			detail = fmt.Sprintf("%d runs scatter by %.3g J/K, %.1f times more than their uncertainties explain; u(ε) inflated", cal.Scatter.Runs, cal.Scatter.SDJPerK, cal.Scatter.BirgeRatio)
@@ -569,7 +619,7 @@ func (cal *Calibration) evaluate() error {
 		for _, r := range cal.Runs {
 			if math.Abs(r.ContentsMass-cal.ContentsMass) > 0.02*cal.ContentsMass {
 				cal.Checks = append(cal.Checks, Check{Name: "calibration-fills", Status: Warn,
-					Detail: fmt.Sprintf("run %s held %.1f g of liquid, the others average %.1f g", r.RunID, r.ContentsMass, cal.ContentsMass)})
+					Detail: fmt.Sprintf("run %s held %.1f g of liquid, the runs average %.1f g: their total heat capacities differ by the fill", r.RunID, r.ContentsMass, cal.ContentsMass)})
 				break
 			}
 		}
@@ -592,29 +642,52 @@ func finiteDoF(v float64) float64 {
 	return v
 }
 
+// calModel is the measurement model of a calibration inside a chain: the
+// total heat capacity, the vessel part (nil unless every run has one), the
+// index of the shared k_cp input, and the between-run scatter.
+type calModel struct {
+	eps, vessel Model
+	kcp         int
+	scatter     *ScatterSummary
+}
+
 // model adds every run's inputs to c and returns the combined heat capacity
-// ε(x) = Σ w_i ε_i(x)/Σ w_i (+ a between-run term when the runs scatter more
-// than their uncertainties say) and the vessel part when every run has one.
-func (cal *Calibration) model(c *chain) (eps, vessel func(x []float64) float64, err error) {
+//
+//	ε(x) = Σ w_i ε_i(x) + δε_runs,   w_i = u_i⁻²/Σ u_j⁻²
+//
+// where δε_runs = 0 ± u_extra is the between-run term: with the Birge ratio
+// R_B = √(χ²/(n − 1)), χ² = Σ (ε_i − ε̄)²/u_i², and R_B > 1,
+//
+//	u_extra = u(ε̄)·√(R_B² − 1),   u(ε̄) = (Σ u_i⁻²)^(−1/2)
+//
+// so that for independent runs u(ε) = R_B·u(ε̄) (Birge, Phys. Rev. 40 (1932)
+// 207; common practice), on n − 1 degrees of freedom. model does not
+// change cal.
+func (cal *Calibration) model(c *chain) (calModel, error) {
 	if len(cal.Runs) == 0 {
-		return nil, nil, errors.New("calibration has no runs")
+		return calModel{}, errors.New("calibration has no runs")
 	}
-	t := cal.Runs[0].MeanTemperature
-	kcp := c.add(cpScaleInput(t))
-	models := make([]calRunModel, len(cal.Runs))
-	w := make([]float64, len(cal.Runs))
+	kcp := c.add(cpScaleInput(cal.Runs[0].MeanTemperature))
+	out := calModel{kcp: kcp}
+	n := len(cal.Runs)
+	models := make([]calRunModel, n)
+	w := make([]float64, n)
 	var sw float64
 	allVessel := true
 	for i := range cal.Runs {
 		r := &cal.Runs[i]
-		m, err := r.build(c, kcp)
+		tag := ""
+		if n > 1 {
+			tag = strconv.Itoa(i + 1)
+		}
+		m, err := r.build(c, kcp, tag)
 		if err != nil {
-			return nil, nil, err
+			return calModel{}, err
 		}
 		models[i] = m
 		u := r.UHeatCapacity
-		if !(u > 0) {
-			u = 1
+		if !(u > 0) || math.IsInf(u, 0) {
+			return calModel{}, fmt.Errorf("%s: standard uncertainty of ε %g J/K is not positive", calWho(r.RunID), u)
 		}
 		w[i] = 1 / (u * u)
 		sw += w[i]
@@ -626,27 +699,26 @@ func (cal *Calibration) model(c *chain) (eps, vessel func(x []float64) float64, 
 		w[i] /= sw
 	}
 	extra := -1
-	if n := len(cal.Runs); n > 1 {
-		var mean, chi2, sd float64
+	if n > 1 {
+		var wmean, mean, chi2, ss float64
 		for i, r := range cal.Runs {
-			mean += w[i] * r.HeatCapacity
+			wmean += w[i] * r.HeatCapacity
+			mean += r.HeatCapacity / float64(n)
 		}
 		for _, r := range cal.Runs {
-			d := r.HeatCapacity - mean
+			d := r.HeatCapacity - wmean
 			chi2 += d * d / (r.UHeatCapacity * r.UHeatCapacity)
-			sd += d * d
+			ss += (r.HeatCapacity - mean) * (r.HeatCapacity - mean)
 		}
-		sd = math.Sqrt(sd / float64(n-1))
 		rb := math.Sqrt(chi2 / float64(n-1))
-		s := &ScatterSummary{Runs: n, BirgeRatio: rb, SDJPerK: sd}
+		s := &ScatterSummary{Runs: n, BirgeRatio: rb, SDJPerK: math.Sqrt(ss / float64(n-1))}
 		if rb > 1 {
-			uMean := 1 / math.Sqrt(sw)
-			s.UExtra = uMean * math.Sqrt(rb*rb-1)
+			s.UExtra = math.Sqrt((rb*rb - 1) / sw)
 			extra = c.add(Input{Name: "scatter between calibration runs", Symbol: "δε_runs", Unit: "J/K", Value: 0, U: s.UExtra, DoF: float64(n - 1), Dist: Normal})
 		}
-		cal.Scatter = s
+		out.scatter = s
 	}
-	eps = func(x []float64) float64 {
+	out.eps = func(x []float64) float64 {
 		var e float64
 		for i, m := range models {
 			e += w[i] * m.eps(x)
@@ -657,7 +729,7 @@ func (cal *Calibration) model(c *chain) (eps, vessel func(x []float64) float64, 
 		return e
 	}
 	if allVessel {
-		vessel = func(x []float64) float64 {
+		out.vessel = func(x []float64) float64 {
 			var v float64
 			for i, m := range models {
 				v += w[i] * m.vessel(x)
@@ -668,40 +740,212 @@ func (cal *Calibration) model(c *chain) (eps, vessel func(x []float64) float64, 
 			return v
 		}
 	}
-	return eps, vessel, nil
+	return out, nil
 }
+
+// Errors of ReadCalibration, for errors.Is.
+var (
+	// ErrCalibrationFile: the input is not a calibration file this program
+	// reads (not JSON, not a calibration, a newer format, no runs).
+	ErrCalibrationFile = errors.New("not a usable calibration file")
+	// ErrCalibrationEdited: the numbers the file states do not follow from
+	// the inputs it stores.
+	ErrCalibrationEdited = errors.New("the file was edited or is corrupt")
+)
 
 // WriteCalibration writes the calibration file: versioned, indented JSON.
 func WriteCalibration(w io.Writer, cal *Calibration) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
-	return enc.Encode(cal)
+	if err := enc.Encode(cal); err != nil {
+		return fmt.Errorf("calibration file: %w", err)
+	}
+	return nil
+}
+
+// calAgree reports whether a stated value matches the one re-derived from
+// the inputs: the file holds every number with all its digits, so only
+// rounding in the re-derivation may differ.
+func calAgree(stated, derived float64) bool {
+	return math.Abs(stated-derived) <= 1e-6*math.Abs(derived)+1e-9
 }
 
 // ReadCalibration reads a calibration file written by WriteCalibration and
-// re-derives its heat capacity from the stored inputs. A corrupt file, a
-// newer format, or numbers that do not follow from the inputs are errors.
+// re-derives every run's heat capacity, and the combined one, from the
+// stored inputs. A file that is not JSON, not a calibration, or of a newer
+// format gives an error wrapping ErrCalibrationFile; numbers that do not
+// follow from the inputs one wrapping ErrCalibrationEdited.
 func ReadCalibration(r io.Reader) (*Calibration, error) {
 	dec := json.NewDecoder(r)
 	var cal Calibration
 	if err := dec.Decode(&cal); err != nil {
-		return nil, fmt.Errorf("calibration file is not valid JSON: %w", err)
+		return nil, fmt.Errorf("%w: not valid JSON: %w", ErrCalibrationFile, err)
 	}
 	switch {
 	case cal.Format == 0 || cal.Kind != "calibration":
-		return nil, errors.New("not a calred calibration file (no calred_calibration_format, or kind is not \"calibration\")")
+		return nil, fmt.Errorf("%w: no calred_calibration_format, or kind is not \"calibration\"", ErrCalibrationFile)
 	case cal.Format > CalibrationFormat:
-		return nil, fmt.Errorf("calibration file format %d is newer than this program reads (%d): use a newer calred", cal.Format, CalibrationFormat)
+		return nil, fmt.Errorf("%w: format %d is newer than this program reads (%d): use a newer calred", ErrCalibrationFile, cal.Format, CalibrationFormat)
 	case len(cal.Runs) == 0:
-		return nil, errors.New("calibration file has no runs")
+		return nil, fmt.Errorf("%w: it has no runs", ErrCalibrationFile)
+	}
+	for i := range cal.Runs {
+		run := &cal.Runs[i]
+		stated, statedU := run.HeatCapacity, run.UHeatCapacity
+		if err := run.evaluate(); err != nil {
+			return nil, fmt.Errorf("calibration file: %w: %w", err, ErrCalibrationEdited)
+		}
+		if !calAgree(stated, run.HeatCapacity) || !calAgree(statedU, run.UHeatCapacity) {
+			return nil, fmt.Errorf("calibration file: run %s states ε = %g ± %g J/K but its inputs give %g ± %g J/K: %w",
+				run.RunID, stated, statedU, run.HeatCapacity, run.UHeatCapacity, ErrCalibrationEdited)
+		}
 	}
 	stated, statedU := cal.HeatCapacity, cal.UHeatCapacity
 	if err := cal.evaluate(); err != nil {
-		return nil, err
+		return nil, fmt.Errorf("calibration file: %w: %w", err, ErrCalibrationEdited)
 	}
-	if math.Abs(cal.HeatCapacity-stated) > 1e-6*math.Abs(stated)+1e-9 || math.Abs(cal.UHeatCapacity-statedU) > 1e-3*statedU+1e-9 {
-		return nil, fmt.Errorf("calibration file states ε = %g ± %g J/K but its inputs give %g ± %g J/K: the file was edited or is corrupt",
-			stated, statedU, cal.HeatCapacity, cal.UHeatCapacity)
+	if !calAgree(stated, cal.HeatCapacity) || !calAgree(statedU, cal.UHeatCapacity) {
+		return nil, fmt.Errorf("calibration file states ε = %g ± %g J/K but its inputs give %g ± %g J/K: %w",
+			stated, statedU, cal.HeatCapacity, cal.UHeatCapacity, ErrCalibrationEdited)
 	}
 	return &cal, nil
+}
+
+// Pulse is one heating period of a log that holds several: when the heater
+// was switched on and off, and what it put in (Energy from a heater-power
+// column, or Power with Time — Time defaults to Off − On — or Voltage,
+// Current and Time).
+type Pulse struct {
+	On, Off    float64 // s
+	Electrical Electrical
+}
+
+// PulseOf turns a heating period found in a heater-power column into a
+// Pulse whose energy is the column's integral.
+func PulseOf(h HeaterPulse) Pulse {
+	return Pulse{On: h.On, Off: h.Off, Electrical: Electrical{Energy: h.Energy, UEnergy: h.UEnergy}}
+}
+
+// PulseCalibration is an electrical calibration from several heating
+// periods in one log: one run per pulse, the part of the log each was
+// reduced from, and the agreement of consecutive pulses.
+type PulseCalibration struct {
+	Runs    []*CalibrationRun
+	Windows []Period // readings analysed for each pulse (s)
+	Checks  []Check  // pulse-agreement, one per pair of consecutive pulses
+}
+
+// Limits of the pulse-agreement check: the difference of two heat
+// capacities against its standard uncertainty, |ε₂ − ε₁|/√(u₁² + u₂²),
+// warns beyond 2 and fails beyond 3 (the usual 2σ/3σ warning and action
+// limits — common practice).
+const (
+	calPulseWarnZ = 2
+	calPulseFailZ = 3
+)
+
+// CalibratePulses reduces a log (t in s, increasing; theta in K) in which
+// a heater was switched on more than once — calibrations before and after
+// a sample, common in precision work (DOMAIN §3) — to one electrical
+// calibration run per pulse. Pulse k is analysed on the readings from the
+// start of the after period of pulse k − 1 (the log's start for the first)
+// to the last reading before pulse k + 1 is switched on (the log's end for
+// the last): the after period of one pulse is the fore period of the next.
+// The mixing time of each window is the pulse's On time; opt must not fix
+// the fore or after period, since they differ between pulses, and the log
+// must hold no other process between the pulses.
+//
+// s describes the calibration apart from the energy (run ID, file,
+// contents mass, balance uncertainty); its Electrical, Chemical and Mixing
+// must be nil. Run k is named RunID-pulse<k>. Consecutive pulses are
+// compared (calPulseWarnZ, calPulseFailZ) and the check is added to the
+// later run. The two windows share readings — noise that raises the shared
+// part raises the first ΔT and lowers the second — so the runs' ΔT are
+// anticorrelated; the comparison and Combine ignore that, which makes the
+// comparison a little stricter and u(ε̄) a little larger than they need be.
+func CalibratePulses(t, theta []float64, pulses []Pulse, s CalibrationSetup, opt RiseOptions) (*PulseCalibration, error) {
+	switch {
+	case len(pulses) == 0:
+		return nil, errors.New("pulse calibration: no heating periods given")
+	case len(t) != len(theta) || len(t) == 0:
+		return nil, fmt.Errorf("pulse calibration: %d times but %d temperatures", len(t), len(theta))
+	case opt.Pre != nil || opt.Post != nil:
+		return nil, errors.New("pulse calibration: the fore and after periods differ from pulse to pulse and cannot be fixed for the whole log")
+	case s.Electrical != nil || s.Chemical != nil || s.Mixing != nil:
+		return nil, errors.New("pulse calibration: the energy comes with each pulse; the setup must not describe a calibration kind")
+	}
+	for k, p := range pulses {
+		if !(p.Off > p.On) || !(p.On > t[0]) || !(p.Off < t[len(t)-1]) {
+			return nil, fmt.Errorf("pulse calibration: heating period %d (%g s to %g s) does not lie inside the log (%g s to %g s) with off after on",
+				k+1, p.On, p.Off, t[0], t[len(t)-1])
+		}
+		if k > 0 && !(p.On > pulses[k-1].Off) {
+			return nil, fmt.Errorf("pulse calibration: heating period %d starts at %g s, before period %d ends at %g s", k+1, p.On, k, pulses[k-1].Off)
+		}
+	}
+	id := s.RunID
+	if id == "" {
+		id = "run"
+	}
+	out := &PulseCalibration{}
+	start := 0
+	for k, p := range pulses {
+		end := len(t)
+		if k+1 < len(pulses) {
+			end = sort.SearchFloat64s(t, pulses[k+1].On)
+		}
+		if end-start < riseMinPoints {
+			return nil, fmt.Errorf("pulse calibration: heating period %d has only %d readings between the previous after period and the next pulse", k+1, end-start)
+		}
+		o := opt
+		o.MixTime = p.On
+		rise, err := AnalyseRise(t[start:end], theta[start:end], o)
+		if err != nil {
+			return nil, fmt.Errorf("pulse calibration: heating period %d (on at %g s): %w", k+1, p.On, err)
+		}
+		e := p.Electrical
+		if e.Energy == 0 && e.Time == 0 {
+			e.Time = p.Off - p.On
+		}
+		ps := s
+		ps.RunID = fmt.Sprintf("%s-pulse%d", id, k+1)
+		ps.Electrical = &e
+		run, err := CalibrateRun(rise, ps)
+		if err != nil {
+			return nil, fmt.Errorf("pulse calibration: heating period %d: %w", k+1, err)
+		}
+		out.Runs = append(out.Runs, run)
+		out.Windows = append(out.Windows, Period{t[start], t[end-1]})
+		if k > 0 {
+			ch := calPulseAgreement(out.Runs[k-1], run)
+			run.Checks = append(run.Checks, ch)
+			run.Status = Worst(run.Checks)
+			out.Checks = append(out.Checks, ch)
+		}
+		if k+1 < len(pulses) {
+			start = sort.SearchFloat64s(t, rise.Periods.Post.Start)
+			if next := sort.SearchFloat64s(t, pulses[k+1].On); next-start < riseMinPoints {
+				return nil, fmt.Errorf("pulse calibration: the after period of heating period %d (from %g s) leaves only %d readings before period %d is switched on at %g s",
+					k+1, rise.Periods.Post.Start, next-start, k+2, pulses[k+1].On)
+			}
+		}
+	}
+	return out, nil
+}
+
+// calPulseAgreement compares the heat capacities of two consecutive pulses.
+func calPulseAgreement(a, b *CalibrationRun) Check {
+	d := b.HeatCapacity - a.HeatCapacity
+	u := math.Hypot(a.UHeatCapacity, b.UHeatCapacity)
+	z := math.Abs(d) / u
+	st := Pass
+	switch {
+	case !(z <= calPulseFailZ):
+		st = Fail
+	case z > calPulseWarnZ:
+		st = Warn
+	}
+	return Check{Name: "pulse-agreement", Status: st,
+		Detail: fmt.Sprintf("ε of %s differs from %s by %+.4g J/K, %.2f times their combined standard uncertainty %.3g J/K (warn beyond %d, fail beyond %d)",
+			b.RunID, a.RunID, d, z, u, calPulseWarnZ, calPulseFailZ)}
 }

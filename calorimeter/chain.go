@@ -73,13 +73,30 @@ func chainCorr(ua, ub, cov float64) float64 {
 }
 
 // riseInput is the corrected temperature change of a run as a model input,
-// with the degrees of freedom its analysis found.
+// with the degrees of freedom its analysis found. With finitely many (more
+// than two) it is a scaled and shifted t-distribution for the Monte Carlo
+// trials (JCGM 101:2008 6.4.9), so that the trials see the same ν as the
+// GUM coverage factor does; ν below 1 is taken as 1.
 func riseInput(name, symbol string, r *Rise) Input {
 	dof := r.DoF
 	if dof <= 0 || math.IsNaN(dof) {
 		dof = math.Inf(1)
 	}
-	return Input{Name: name, Symbol: symbol, Unit: "K", Value: r.DeltaT, U: r.UDeltaT, DoF: dof, Dist: Normal}
+	dof = math.Max(dof, 1)
+	dist := Normal
+	if dof > 2 && !math.IsInf(dof, 1) {
+		dist = StudentT
+	}
+	return Input{Name: name, Symbol: symbol, Unit: "K", Value: r.DeltaT, U: r.UDeltaT, DoF: dof, Dist: dist}
+}
+
+// riseDoF is the effective degrees of freedom of a run's temperature
+// analysis, for inputs derived from it (≥ 1, +Inf when unknown).
+func riseDoF(r *Rise) float64 {
+	if r.DoF <= 0 || math.IsNaN(r.DoF) {
+		return math.Inf(1)
+	}
+	return math.Max(r.DoF, 1)
 }
 
 // massInput is a weighing with the balance's standard uncertainty.

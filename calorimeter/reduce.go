@@ -114,10 +114,11 @@ func ReduceSample(rise *Rise, s Sample, hc HeatCapacity, opt ReduceOptions) (*Re
 	var eps func(x []float64) float64
 	switch {
 	case hc.Calibration != nil:
-		calEps, calVessel, err := hc.Calibration.model(&c)
+		cm, err := hc.Calibration.model(&c)
 		if err != nil {
 			return nil, err
 		}
+		calVessel := cm.vessel
 		switch {
 		case s.SolventMass > 0 && calVessel != nil:
 			uw := s.USolventMass
@@ -130,19 +131,15 @@ func ReduceSample(rise *Rise, s Sample, hc HeatCapacity, opt ReduceOptions) (*Re
 				eps = func(x []float64) float64 { return calVessel(x) + (x[iW]+x[iMs])*x[iCp] }
 				red.HeatCapacityBasis = fmt.Sprintf("vessel part of the calibration plus (%.4g g solvent + %.4g g solute) × c_p %.5g J/(g·K) given", s.SolventMass, s.Mass, s.SolutionCp)
 			} else {
-				kcp := 0 // the calibration's k_cp is the chain's first input after the sample's three
-				for i, in := range c.inputs {
-					if in.Symbol == "k_cp" {
-						kcp = i
-						break
-					}
-				}
+				// The calibration's k_cp: the same scale on water's c_p
+				// in the calibration and here, so that it cancels.
+				kcp := cm.kcp
 				cp := WaterCp(rise.MeanTemperature)
 				eps = func(x []float64) float64 { return calVessel(x) + x[kcp]*x[iW]*cp }
 				red.HeatCapacityBasis = fmt.Sprintf("vessel part of the calibration plus %.4g g water × c_p(water, %.2f °C) = %.5g J/(g·K); the solute's own heat capacity is neglected", s.SolventMass, rise.MeanTemperature-273.15, cp)
 			}
 		default:
-			eps = calEps
+			eps = cm.eps
 			red.HeatCapacityBasis = "total heat capacity of the calibration (same fill assumed)"
 			if s.SolventMass > 0 && hc.Calibration.ContentsMass > 0 &&
 				math.Abs(s.SolventMass-hc.Calibration.ContentsMass) > 0.02*hc.Calibration.ContentsMass {
@@ -189,6 +186,10 @@ func ReduceSample(rise *Rise, s Sample, hc HeatCapacity, opt ReduceOptions) (*Re
 	}
 	red.MolarEnthalpy, red.UMolarEnthalpy = b.Value, b.U
 	red.Expanded, red.CoverageFactor, red.DoF = b.Expanded, b.K, b.DoF
+	if s.SolutionCp > 0 && !strings.HasPrefix(red.HeatCapacityBasis, "vessel part") {
+		red.Checks = append(red.Checks, Check{Name: "solution-cp-unused", Status: Warn,
+			Detail: fmt.Sprintf("the solution's c_p %.5g J/(g·K) was given but not used: the heat capacity is %s; it enters only with a calibration's vessel part and the solvent mass", s.SolutionCp, red.HeatCapacityBasis)})
+	}
 	red.Checks = append(red.Checks, reduceChecks(red)...)
 	red.Status = Worst(red.Checks)
 	return red, nil
@@ -228,7 +229,7 @@ func reduceChecks(r *Reduction) []Check {
 			if r.MolarEnthalpy < 0 {
 				got = -1
 			}
-			word := map[int]string{1: "endothermic (ΔsolH > 0, the water cools)", -1: "exothermic (ΔsolH < 0, the water warms)"}
+			word := map[int]string{1: "endothermically (ΔsolH > 0, the water cools)", -1: "exothermically (ΔsolH < 0, the water warms)"}
 			if got != sign {
 				out = append(out, Check{Name: "sign-as-expected", Status: Fail,
 					Detail: fmt.Sprintf("%s dissolves %s, but this run gives ΔsolH = %.3g kJ/mol: check the sign of ΔT, the mixing time and the substance", f, word[sign], r.MolarEnthalpy)})

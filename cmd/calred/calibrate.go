@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"sort"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -22,7 +23,10 @@ const calibrateAbout = `Reduce calibration runs to the calorimeter's heat capaci
                come from the drift lines of the log)
 --contents-mass splits off the vessel's own heat capacity so it can be reused with other
 fills. Several LOGs are combined as a weighted mean; -o writes the calibration file that
-"calred reduce --cal FILE" reads.
+"calred reduce --cal FILE" reads. A heater-power column that shows the heater on more
+than once (calibrations before and after a sample) gives one run per heating period,
+each reduced on its own part of the log; consecutive periods are compared (warn beyond
+2, fail beyond 3 combined standard uncertainties) and all are combined.
 
 Caution: heaters and mains-powered supplies need your lab's electrical safety rules; hot
 water scalds. Follow your lab's local rules and licensed practice.`
@@ -42,11 +46,11 @@ func runCalibrate(a *app, args []string) error {
 	flags.fromFlags(fs)
 	var runs []*calibrationResult
 	for _, path := range fs.Args() {
-		cr, err := calibrateOne(a, path, flags, out.limits)
+		crs, err := calibrateLog(a, path, flags, out.limits)
 		if err != nil {
 			return err
 		}
-		runs = append(runs, cr)
+		runs = append(runs, crs...)
 	}
 	crs := make([]*calorimeter.CalibrationRun, len(runs))
 	for i, r := range runs {
@@ -66,10 +70,10 @@ func runCalibrate(a *app, args []string) error {
 			name := *out.plot
 			if len(runs) > 1 {
 				ext := filepath.Ext(name)
-				name = strings.TrimSuffix(name, ext) + "-" + r.in.runID + ext
+				name = strings.TrimSuffix(name, ext) + "-" + r.run.RunID + ext
 			}
-			th := thermogram(fmt.Sprintf("%s — ε = %.1f ± %.1f J/K", r.in.runID, r.run.HeatCapacity, r.run.UHeatCapacity),
-				r.in.log.Time, r.in.log.Temperature, r.run.Rise)
+			th := thermogram(fmt.Sprintf("%s — ε = %.1f ± %.1f J/K", r.run.RunID, r.run.HeatCapacity, r.run.UHeatCapacity),
+				r.t, r.theta, r.run.Rise)
 			if err := writePlot(name, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
 				return err
 			}
@@ -90,7 +94,7 @@ func runCalibrate(a *app, args []string) error {
 		return usagef("--supersede needs --ledger: it names the ledger row this result replaces")
 	}
 	if *out.json {
-		if err := writeJSON(a.stdout, calibrationJSON(cal)); err != nil {
+		if err := writeJSON(a.stdout, calibrationJSON(cal, runs)); err != nil {
 			return err
 		}
 	} else if err := writeCalibrationText(a.stdout, cal, runs); err != nil {
@@ -103,18 +107,42 @@ func runCalibrate(a *app, args []string) error {
 }
 
 type calibrationResult struct {
-	in  *runInput
-	run *calorimeter.CalibrationRun
+	in        *runInput
+	run       *calorimeter.CalibrationRun
+	t, theta  []float64 // the readings the run was reduced from (the whole log, or a pulse's window)
+	pulse     *calorimeter.Pulse
+	window    calorimeter.Period
+	of, total int // heating period of a log with several: 1-based number and count
 }
 
+// calibrateOne reduces a calibration log that holds one process (a
+// manifest row).
 func calibrateOne(a *app, path string, over *spec, lf limitFlags) (*calibrationResult, error) {
+	crs, err := calibrateLog(a, path, over, lf)
+	if err != nil {
+		return nil, err
+	}
+	if len(crs) != 1 {
+		return nil, withHint(dataf("%s: the heater-power column shows %d heating periods, but one calibration run is wanted here", crs[0].in.name, len(crs)),
+			"reduce the log with `calred calibrate`, which reports each heating period and combines them")
+	}
+	return crs[0], nil
+}
+
+// calibrateLog reduces one calibration log: one run, or one run per
+// heating period when the log's heater-power column shows more than one
+// (calibrations before and after a sample, DOMAIN §3).
+func calibrateLog(a *app, path string, over *spec, lf limitFlags) ([]*calibrationResult, error) {
 	ri, err := loadRun(a, path, over)
 	if err != nil {
 		return nil, err
 	}
-	setup, err := calibrationSetup(ri)
+	setup, pulses, err := calibrationSetup(ri)
 	if err != nil {
 		return nil, err
+	}
+	if len(pulses) > 1 {
+		return calibratePulses(ri, setup, pulses, lf)
 	}
 	rise, err := analyse(ri, lf)
 	if err != nil {
@@ -124,16 +152,47 @@ func calibrateOne(a *app, path string, over *spec, lf limitFlags) (*calibrationR
 	if err != nil {
 		return nil, dataf("%s: %w", ri.name, err)
 	}
-	return &calibrationResult{in: ri, run: run}, nil
+	return []*calibrationResult{{in: ri, run: run, t: ri.log.Time, theta: ri.log.Temperature}}, nil
+}
+
+// calibratePulses reduces a log with several heating periods, one run each.
+func calibratePulses(ri *runInput, setup calorimeter.CalibrationSetup, pulses []calorimeter.Pulse, lf limitFlags) ([]*calibrationResult, error) {
+	for _, name := range []string{"mix-time", "pre", "post"} {
+		if ri.spec.has(name) {
+			return nil, withHint(usagef("%s: --%s applies to a log with one process, but the heater is on %d times", ri.name, name, len(pulses)),
+				"leave the periods to detection, or cut the log into one file per heating period")
+		}
+	}
+	opt, err := riseOptions(ri.spec, lf)
+	if err != nil {
+		return nil, err
+	}
+	pc, err := calorimeter.CalibratePulses(ri.log.Time, ri.log.Temperature, pulses, setup, opt)
+	if err != nil {
+		return nil, withHint(dataf("%s: %w", ri.name, err), "look at the log with `calred inspect`; each heating period needs fore and after periods of its own")
+	}
+	out := make([]*calibrationResult, len(pc.Runs))
+	for i, run := range pc.Runs {
+		w := pc.Windows[i]
+		lo := sort.SearchFloat64s(ri.log.Time, w.Start)
+		hi := sort.SearchFloat64s(ri.log.Time, w.End) + 1
+		out[i] = &calibrationResult{in: ri, run: run, t: ri.log.Time[lo:hi], theta: ri.log.Temperature[lo:hi],
+			pulse: &pulses[i], window: w, of: i + 1, total: len(pulses)}
+	}
+	return out, nil
 }
 
 // calibrationSetup reads the kind of calibration from a run's description.
-func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
+// When the log has a heater-power column that shows more than one heating
+// period, it returns them, each with the energy the column gives or with
+// the heater power (voltage, current) and time of the description, and a
+// setup without a kind.
+func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, []calorimeter.Pulse, error) {
 	s := ri.spec
 	st := calorimeter.CalibrationSetup{RunID: ri.runID, File: ri.name, SHA256: ri.sha256}
 	um, err := uMass(s)
 	if err != nil {
-		return st, err
+		return st, nil, err
 	}
 	st.UMass = um
 	q := func(name string) (units.Quantity, bool, error) { return s.quantity(name) }
@@ -153,7 +212,7 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 	v, err := get("heater-power", "heater-time", "heater-voltage", "heater-current", "sample-mass", "solvent-mass",
 		"reference-enthalpy", "amount", "cold-mass", "hot-mass", "hot-temperature", "contents-mass")
 	if err != nil {
-		return st, err
+		return st, nil, err
 	}
 	has := func(n string) bool { _, ok := v[n]; return ok }
 	kinds := []string{}
@@ -170,7 +229,7 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 			e.Current, e.UCurrent = v["heater-current"].Value, v["heater-current"].U
 			e.Time, e.UTime = t.Value, t.U
 		default:
-			return st, withHint(usagef("electrical calibration: give --heater-power with --heater-time, or --heater-voltage, --heater-current and --heater-time"), "")
+			return st, nil, withHint(usagef("electrical calibration: give --heater-power with --heater-time, or --heater-voltage, --heater-current and --heater-time"), "")
 		}
 		st.Electrical = e
 	}
@@ -179,7 +238,7 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 		ms, okM := v["sample-mass"]
 		n, okN := v["amount"]
 		if !okM && !okN {
-			return st, usagef("chemical calibration: give --sample-mass, the mass of the standard (g), or --amount (mol) for a standard that is not weighed")
+			return st, nil, usagef("chemical calibration: give --sample-mass, the mass of the standard (g), or --amount (mol) for a standard that is not weighed")
 		}
 		ch := &calorimeter.ChemicalCalibration{Mass: ms.Value, UMass: ms.U, Amount: n.Value, UAmount: n.U}
 		if sm, ok := v["solvent-mass"]; ok {
@@ -188,17 +247,17 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 		if s.has("standard") {
 			std, err := calorimeter.LookupStandard(s.text("standard"))
 			if err != nil {
-				return st, s.fail("standard", err)
+				return st, nil, s.fail("standard", err)
 			}
 			ch.Standard = std
 		} else {
 			f := s.text("formula")
 			if f == "" {
-				return st, usagef("--reference-enthalpy needs --formula for the molar mass")
+				return st, nil, usagef("--reference-enthalpy needs --formula for the molar mass")
 			}
 			m, _, err := calorimeter.MolarMass(f)
 			if err != nil {
-				return st, s.fail("formula", err)
+				return st, nil, s.fail("formula", err)
 			}
 			h := v["reference-enthalpy"]
 			ch.Standard = calorimeter.Standard{Name: f, Formula: f, MolarMass: m, Weighed: true, Enthalpy: h.Value, UEnthalpy: h.U,
@@ -213,27 +272,45 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 		h, ok2 := v["hot-mass"]
 		th, ok3 := v["hot-temperature"]
 		if !ok1 || !ok2 || !ok3 {
-			return st, usagef("mixing calibration: give --cold-mass, --hot-mass and --hot-temperature")
+			return st, nil, usagef("mixing calibration: give --cold-mass, --hot-mass and --hot-temperature")
 		}
 		st.Mixing = &calorimeter.Mixing{ColdMass: c.Value, UColdMass: c.U, HotMass: h.Value, UHotMass: h.U,
 			HotTemperature: th.Value, UHotTemperature: th.U}
 	}
-	if len(kinds) == 0 {
-		if col := heaterColumn(ri); col != "" {
-			hp, err := calorimeter.HeaterEnergy(ri.log.Time, ri.log.Extra[col])
-			if err != nil {
-				return st, dataf("%s: column %q: %w", ri.name, col, err)
+	var pulses []calorimeter.Pulse
+	if col := heaterColumn(ri); col != "" && (len(kinds) == 0 || (len(kinds) == 1 && st.Electrical != nil)) {
+		hps, err := calorimeter.HeaterPulses(ri.log.Time, ri.log.Extra[col])
+		if err != nil && len(kinds) == 0 {
+			return st, nil, dataf("%s: column %q: %w", ri.name, col, err)
+		}
+		for _, hp := range hps {
+			p := calorimeter.PulseOf(hp)
+			if st.Electrical != nil {
+				p.Electrical = *st.Electrical // the description's heater settings, for each period
 			}
-			st.Electrical = &calorimeter.Electrical{Energy: hp.Energy, UEnergy: hp.UEnergy}
+			pulses = append(pulses, p)
+		}
+		switch {
+		case len(pulses) > 1:
+			st.Electrical = nil
+			if !(st.UMass > 0) {
+				st.UMass = calorimeter.DefaultUMass
+			}
+			if c, ok := v["contents-mass"]; ok {
+				st.ContentsMass, st.UContentsMass = c.Value, c.U
+			}
+			return st, pulses, nil
+		case len(pulses) == 1 && len(kinds) == 0:
+			st.Electrical = &pulses[0].Electrical
 			kinds = append(kinds, "electrical")
 		}
 	}
 	switch len(kinds) {
 	case 0:
-		return st, withHint(usagef("%s: no calibration described", ri.name), "give --heater-power/--heater-time, --standard with --sample-mass, or --cold-mass/--hot-mass/--hot-temperature")
+		return st, nil, withHint(usagef("%s: no calibration described", ri.name), "give --heater-power/--heater-time, --standard with --sample-mass, or --cold-mass/--hot-mass/--hot-temperature")
 	case 1:
 	default:
-		return st, usagef("%s: the description mixes %s calibrations; give one kind", ri.name, strings.Join(kinds, " and "))
+		return st, nil, usagef("%s: the description mixes %s calibrations; give one kind", ri.name, strings.Join(kinds, " and "))
 	}
 	if c, ok := v["contents-mass"]; ok {
 		st.ContentsMass, st.UContentsMass = c.Value, c.U
@@ -241,7 +318,7 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, error) {
 	if !(st.UMass > 0) {
 		st.UMass = calorimeter.DefaultUMass
 	}
-	return st, nil
+	return st, nil, nil
 }
 
 // heaterColumn names a log column that records heater power, if any.
@@ -259,7 +336,7 @@ func (r *calibrationResult) record() ledger.Row {
 	s := r.in.spec
 	run := r.run
 	row := ledger.NewRow()
-	row.RecordedAt, row.RunID, row.Kind = time.Now().UTC(), r.in.runID, "calibration"
+	row.RecordedAt, row.RunID, row.Kind = time.Now().UTC(), run.RunID, "calibration"
 	row.SampleID, row.Operator, row.Formula = s.text("sample-id"), s.text("operator"), s.text("formula")
 	row.Method, row.DeltaTK, row.UDeltaTK = run.CorrectionMethod, run.DeltaT, run.UDeltaT
 	row.HeatCapacityJPerK, row.UHeatCapacityJPerK, row.CoverageFactor = run.HeatCapacity, run.UHeatCapacity, run.Budget.K
@@ -269,12 +346,15 @@ func (r *calibrationResult) record() ledger.Row {
 	if run.StandardName != "" {
 		row.Calibration = run.Method + " calibration with " + run.StandardName
 	}
+	if r.total > 1 {
+		row.Calibration += fmt.Sprintf(", heating period %d of %d", r.of, r.total)
+	}
 	return row
 }
 
-func calibrationJSON(cal *calorimeter.Calibration) map[string]any {
+func calibrationJSON(cal *calorimeter.Calibration, results []*calibrationResult) map[string]any {
 	runs := make([]map[string]any, 0, len(cal.Runs))
-	for _, r := range cal.Runs {
+	for i, r := range cal.Runs {
 		m := map[string]any{
 			"run_id": r.RunID, "input": inputJSON{r.File, r.SHA256, r.Points}, "calibration_method": r.Method,
 			"variant": r.Variant, "method": r.CorrectionMethod, "mix_time_s": r.MixTime,
@@ -300,6 +380,11 @@ func calibrationJSON(cal *calorimeter.Calibration) map[string]any {
 		if r.StandardName != "" {
 			m["standard"], m["standard_source"] = r.StandardName, r.StandardSource
 		}
+		if i < len(results) && results[i].pulse != nil {
+			res := results[i]
+			m["heating_period"] = map[string]any{"number": res.of, "of": res.total,
+				"on_s": res.pulse.On, "off_s": res.pulse.Off, "window_s": [2]float64{res.window.Start, res.window.End}}
+		}
 		runs = append(runs, m)
 	}
 	out := map[string]any{
@@ -324,7 +409,11 @@ func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*cal
 		if run.Variant != "" {
 			kind += ", " + run.Variant
 		}
-		fmt.Fprintf(w, "Calibration run %s (%s) — %s\n", r.in.runID, kind, r.in.name)
+		fmt.Fprintf(w, "Calibration run %s (%s) — %s\n", run.RunID, kind, r.in.name)
+		if r.pulse != nil {
+			fmt.Fprintf(w, "  heating period %d of %d: heater on %.1f s to %.1f s; readings %.1f s to %.1f s analysed\n",
+				r.of, r.total, r.pulse.On, r.pulse.Off, r.window.Start, r.window.End)
+		}
 		fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", run.Points, r.in.sha256)
 		writeRiseText(w, run.Rise)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
@@ -357,6 +446,13 @@ func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*cal
 	}
 	if cal.Scatter != nil {
 		fmt.Fprintf(w, "  scatter between runs: sd %.3g J/K, Birge ratio %.2f\n", cal.Scatter.SDJPerK, cal.Scatter.BirgeRatio)
+	}
+	for _, r := range runs {
+		for _, c := range r.run.Checks {
+			if c.Name == "pulse-agreement" {
+				fmt.Fprintf(w, "  heating periods of %s: %s (%s)\n", r.in.name, c.Detail, c.Status)
+			}
+		}
 	}
 	writeChecksText(w, cal.Checks, cal.Status)
 	return nil
