@@ -20,6 +20,7 @@ import (
 
 	"calred/calorimeter"
 	"calred/calorimeter/ledger"
+	"calred/calorimeter/plot"
 	"calred/calorimeter/report"
 	"calred/units"
 )
@@ -86,7 +87,7 @@ func runBatch(a *app, args []string) error {
 			order = append(order, i)
 		}
 	}
-	calRuns := map[string]*calorimeter.CalibrationRun{}
+	calRuns := map[string][]*calorimeter.CalibrationRun{}
 	results := make([]*batchResult, len(rows))
 	var ledgerRows []ledger.Row
 	for _, i := range order {
@@ -99,14 +100,28 @@ func runBatch(a *app, args []string) error {
 		}
 		switch mr.kind {
 		case "calibration":
-			cr, err := calibrateOne(a, logPath, mr.spec, lf)
+			crs, err := calibrateLog(a, logPath, mr.spec, lf)
 			if err != nil {
 				res.err = err
 				break
 			}
-			res.cal, res.runID = cr, cr.in.runID
-			calRuns[cr.in.runID] = cr.run
-			ledgerRows = append(ledgerRows, cr.record())
+			res.cal, res.runID = crs[0], crs[0].in.runID
+			for _, cr := range crs {
+				calRuns[res.runID] = append(calRuns[res.runID], cr.run)
+				if cr.run.RunID != res.runID {
+					calRuns[cr.run.RunID] = []*calorimeter.CalibrationRun{cr.run}
+				}
+				ledgerRows = append(ledgerRows, cr.record())
+			}
+			if len(crs) > 1 {
+				// A log with several heating periods: the row stands for their combination.
+				comb, err := calorimeter.Combine(calRuns[res.runID], time.Now(), version)
+				if err != nil {
+					res.err = dataErr(err)
+					break
+				}
+				res.calComb = comb
+			}
 		default:
 			cals, err := batchCalibrations(mr, calRuns)
 			if err != nil {
@@ -289,7 +304,7 @@ func readManifest(path string) ([]manifestRow, error) {
 // batchCalibrations resolves a sample's cal cell: run ids of calibration
 // rows (joined with '+') become one combined calibration, held under the
 // cell's text; anything else is left for heatCapacityOf to read as a file.
-func batchCalibrations(mr manifestRow, calRuns map[string]*calorimeter.CalibrationRun) (map[string]*calorimeter.Calibration, error) {
+func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.CalibrationRun) (map[string]*calorimeter.Calibration, error) {
 	if mr.cal == "" {
 		return nil, nil
 	}
@@ -298,7 +313,7 @@ func batchCalibrations(mr manifestRow, calRuns map[string]*calorimeter.Calibrati
 	for _, id := range ids {
 		id = strings.TrimSpace(id)
 		if r, ok := calRuns[id]; ok {
-			runs = append(runs, r)
+			runs = append(runs, r...)
 		} else if len(ids) > 1 {
 			return nil, dataf("manifest line %d: calibration run %q not found (or it could not be reduced)", mr.line, id)
 		}
@@ -318,12 +333,21 @@ func batchCalibrations(mr manifestRow, calRuns map[string]*calorimeter.Calibrati
 }
 
 type batchResult struct {
-	row    manifestRow
-	runID  string
-	sample *sampleResult
-	cal    *calibrationResult
-	err    error
-	grade  *calorimeter.Grade
+	row     manifestRow
+	runID   string
+	sample  *sampleResult
+	cal     *calibrationResult       // the (first) calibration run of the row
+	calComb *calorimeter.Calibration // the row's runs combined, when its log has several heating periods
+	err     error
+	grade   *calorimeter.Grade
+}
+
+// heatCapacity is a calibration row's result.
+func (r *batchResult) heatCapacity() (eps, u float64) {
+	if r.calComb != nil {
+		return r.calComb.HeatCapacity, r.calComb.UHeatCapacity
+	}
+	return r.cal.run.HeatCapacity, r.cal.run.UHeatCapacity
 }
 
 func (r *batchResult) status() calorimeter.Status {
@@ -332,6 +356,8 @@ func (r *batchResult) status() calorimeter.Status {
 		return "error"
 	case r.sample != nil:
 		return r.sample.red.Status
+	case r.calComb != nil:
+		return r.calComb.Status
 	case r.cal != nil:
 		return r.cal.run.Status
 	}
@@ -398,8 +424,9 @@ func writeResultsCSV(w io.Writer, results []*batchResult) error {
 			rec[12], rec[13], rec[14] = num(red.HeatCapacity), num(red.UHeatCapacity), num(red.Molality)
 		case r.cal != nil:
 			run := r.cal.run
+			eps, u := r.heatCapacity()
 			rec[5], rec[6], rec[7] = run.CorrectionMethod, num(run.DeltaT), num(run.UDeltaT)
-			rec[12], rec[13] = num(run.HeatCapacity), num(run.UHeatCapacity)
+			rec[12], rec[13] = num(eps), num(u)
 		}
 		var fb []string
 		if r.err != nil {
@@ -437,7 +464,11 @@ func writeBatchSummary(w io.Writer, results []*batchResult, quiet bool) {
 				byFormula[red.Sample.Formula] = append(byFormula[red.Sample.Formula], red.MolarEnthalpy)
 			}
 		case r.cal != nil:
-			res = fmt.Sprintf("ε = %s", units.Format(r.cal.run.HeatCapacity, r.cal.run.UHeatCapacity, "J/K"))
+			eps, u := r.heatCapacity()
+			res = fmt.Sprintf("ε = %s", units.Format(eps, u, "J/K"))
+			if r.calComb != nil {
+				res += fmt.Sprintf(" (%d heating periods)", len(r.calComb.Runs))
+			}
 		}
 		if g := r.grade; g != nil {
 			grade = g.Verdict
@@ -477,7 +508,7 @@ func writeReport(w io.Writer, title, manifest string, results []*batchResult) er
 	rep := report.Report{Title: title, Manifest: manifest, Generated: time.Now().UTC(), Version: version}
 	for _, r := range results {
 		e := report.Entry{RunID: r.runID, Kind: r.row.kind, Status: string(r.status()), Log: r.row.log}
-		var th *thermogramData
+		var th *plot.Thermogram
 		switch {
 		case r.err != nil:
 			e.Error = oneLine(r.err.Error())
@@ -487,23 +518,28 @@ func writeReport(w io.Writer, title, manifest string, results []*batchResult) er
 			e.Detail = fmt.Sprintf("ΔT = %s (%s); ε = %s; %.4g g %s", units.Format(red.Rise.DeltaT, red.Rise.UDeltaT, "K"), red.Rise.Method,
 				units.Format(red.HeatCapacity, red.UHeatCapacity, "J/K"), red.Sample.Mass, red.Sample.Formula)
 			e.Checks = red.Checks
-			th = &thermogramData{r.sample.plotData()}
+			th = r.sample.plotData()
 			if c := calorimeter.Caution(red.Sample.Formula); c != "" {
 				e.Caution = c
 			}
 		case r.cal != nil:
 			run := r.cal.run
-			e.Result = "ε = " + units.Format(run.HeatCapacity, run.UHeatCapacity, "J/K")
+			eps, u := r.heatCapacity()
+			e.Result = "ε = " + units.Format(eps, u, "J/K")
 			e.Detail = fmt.Sprintf("ΔT = %s (%s), %s calibration", units.Format(run.DeltaT, run.UDeltaT, "K"), run.CorrectionMethod, run.Method)
 			e.Checks = run.Checks
-			th = &thermogramData{thermogram(r.runID, r.cal.in.log.Time, r.cal.in.log.Temperature, run.Rise)}
+			if r.calComb != nil {
+				e.Detail = fmt.Sprintf("%d heating periods combined; the first: %s", len(r.calComb.Runs), e.Detail)
+				e.Checks = r.calComb.Checks
+			}
+			th = thermogram(r.runID, r.cal.t, r.cal.theta, run.Rise)
 		}
 		if g := r.grade; g != nil {
 			e.Grade = g
 		}
 		if th != nil {
 			var buf bytes.Buffer
-			if err := plotThermogram(&buf, "svg", th.Thermogram); err == nil {
+			if err := plotThermogram(&buf, "svg", th); err == nil {
 				e.SVG = buf.String()
 			}
 		}

@@ -115,20 +115,6 @@ type calibrationResult struct {
 	of, total int // heating period of a log with several: 1-based number and count
 }
 
-// calibrateOne reduces a calibration log that holds one process (a
-// manifest row).
-func calibrateOne(a *app, path string, over *spec, lf limitFlags) (*calibrationResult, error) {
-	crs, err := calibrateLog(a, path, over, lf)
-	if err != nil {
-		return nil, err
-	}
-	if len(crs) != 1 {
-		return nil, withHint(dataf("%s: the heater-power column shows %d heating periods, but one calibration run is wanted here", crs[0].in.name, len(crs)),
-			"reduce the log with `calred calibrate`, which reports each heating period and combines them")
-	}
-	return crs[0], nil
-}
-
 // calibrateLog reduces one calibration log: one run, or one run per
 // heating period when the log's heater-power column shows more than one
 // (calibrations before and after a sample, DOMAIN §3).

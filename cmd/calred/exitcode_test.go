@@ -37,6 +37,7 @@ func TestExitCodes(t *testing.T) {
 		{"reduced", []string{"reduce", s01, "--sample-mass", "5.012g", "--formula", "KNO3", "--heat-capacity", "442±2J/K"}, exitOK},
 		// KNO3 dissolves endothermically; calling it LiCl (exothermic, DOMAIN §5) fails the sign check.
 		{"check failed", []string{"reduce", s01, "--sample-mass", "5.012g", "--formula", "LiCl", "--heat-capacity", "442±2J/K"}, exitCheckFail},
+		{"periods given for two heating periods", []string{"calibrate", filepath.Join(td, "two_pulses.csv"), "--mix-time", "500s"}, exitUsage},
 		{"ledger missing", []string{"ledger", "verify", filepath.Join(dir, "none.csv")}, exitData},
 	}
 	for _, tc := range tests {

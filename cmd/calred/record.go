@@ -143,5 +143,3 @@ func (r *sampleResult) plotData() *plot.Thermogram {
 func plotThermogram(w io.Writer, format string, th *plot.Thermogram) error {
 	return plot.WriteThermogram(w, format, *th, plot.Options{})
 }
-
-type thermogramData struct{ *plot.Thermogram }
