@@ -62,6 +62,21 @@ func runBatch(a *app, args []string) error {
 	}
 	dir := filepath.Dir(mpath)
 	mname := filepath.Base(mpath)
+	inputs := []string{mpath}
+	for _, r := range rows {
+		inputs = append(inputs, filepath.Join(dir, r.log))
+	}
+	for _, o := range []struct{ flag, name string }{{"-o", *output}, {"--report", *reportFile}, {"--ledger", *ledgerFile}} {
+		if o.name == "" {
+			continue
+		}
+		if err := checkOutPath(o.flag, o.name); err != nil {
+			return err
+		}
+		if err := checkNotInput(o.flag, o.name, inputs...); err != nil {
+			return err
+		}
+	}
 
 	var bar *mpb.Bar
 	var progress *mpb.Progress
@@ -137,7 +152,9 @@ func runBatch(a *app, args []string) error {
 			ledgerRows = append(ledgerRows, sr.record())
 		}
 		if res.err != nil {
-			a.warnf("%s:%d: %s: %v", mname, mr.line, res.runID, oneLine(res.err.Error()))
+			where := fmt.Sprintf("%s:%d", mname, mr.line)
+			msg, _ := splitHint(oneLine(res.err.Error()))
+			a.warnf("%s: %s: %s", where, res.runID, strings.TrimPrefix(msg, where+": "))
 		}
 		done()
 	}
@@ -146,8 +163,12 @@ func runBatch(a *app, args []string) error {
 	}
 	gradeBatch(results, sigma, sigmaRel)
 
+	// The files are staged, the ledger rows appended, and only then the
+	// files renamed into place: a refused ledger leaves no new file.
+	var outs outputs
+	defer outs.discard()
 	if *output != "" {
-		if err := writeAtomic(*output, func(w io.Writer) error { return writeResultsCSV(w, results) }); err != nil {
+		if err := outs.stage("-o", *output, func(w io.Writer) error { return writeResultsCSV(w, results) }); err != nil {
 			return err
 		}
 	}
@@ -156,7 +177,7 @@ func runBatch(a *app, args []string) error {
 		if t == "" {
 			t = "calred report — " + mname
 		}
-		if err := writeAtomic(*reportFile, func(w io.Writer) error { return writeReport(w, t, mname, results) }); err != nil {
+		if err := outs.stage("--report", *reportFile, func(w io.Writer) error { return writeReport(w, t, mname, results) }); err != nil {
 			return err
 		}
 	}
@@ -164,6 +185,9 @@ func runBatch(a *app, args []string) error {
 		if err := appendLedger(*ledgerFile, ledgerRows...); err != nil {
 			return err
 		}
+	}
+	if err := outs.commit(); err != nil {
+		return err
 	}
 	writeBatchSummary(a.stdout, results, *quiet)
 
@@ -219,8 +243,10 @@ type manifestRow struct {
 	spec     *spec
 }
 
-// readManifest reads the manifest; an unknown column or a row without a log
-// is an error naming the manifest line.
+// readManifest reads the manifest; an unknown or repeated column, a row
+// without a log and a run_id used twice are errors naming the manifest
+// line. The file may start with a byte-order mark and `#` comment lines;
+// its delimiter (comma, semicolon or tab) is taken from the header line.
 func readManifest(path string) ([]manifestRow, error) {
 	f, err := openInput(path)
 	if err != nil {
@@ -228,37 +254,60 @@ func readManifest(path string) ([]manifestRow, error) {
 	}
 	defer f.Close()
 	name := filepath.Base(path)
-	r := csv.NewReader(f)
+	b, err := io.ReadAll(f)
+	if err != nil {
+		return nil, dataf("%s: %s", name, pathErrText(err))
+	}
+	b = bytes.TrimPrefix(b, []byte("\ufeff"))
+	r := csv.NewReader(bytes.NewReader(b))
+	r.Comma = manifestDelimiter(b)
 	r.FieldsPerRecord = -1
 	r.Comment = '#'
 	r.TrimLeadingSpace = true
-	header, err := r.Read()
-	if err != nil {
-		return nil, dataf("%s: no header line: %v", name, err)
+	csvErr := func(err error) error {
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			return dataf("%s:%d: %v", name, pe.Line, pe.Err)
+		}
+		return dataf("%s: %v", name, err)
 	}
+	header, err := r.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, withHint(dataf("%s: no header line: the manifest is empty", name), "the first line names the columns, e.g. log,kind,formula,sample_mass,cal")
+	}
+	if err != nil {
+		return nil, csvErr(err)
+	}
+	hline, _ := r.FieldPos(0)
 	cols := make([]string, len(header))
+	where := map[string]int{}
 	for i, h := range header {
-		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
-		key := strings.ReplaceAll(h, "_", "-")
+		h = strings.ToLower(strings.TrimSpace(h))
+		key := strings.Join(strings.FieldsFunc(h, func(c rune) bool { return c == '_' || c == ' ' || c == '-' }), "-")
 		switch key {
-		case "log", "kind", "cal":
+		case "", "log", "kind", "cal":
 		default:
 			if _, ok := fieldByName(key); !ok {
-				return nil, dataf("%s:1: unknown column %q (columns are flag names with '_' for '-', plus log, kind, cal, accepted)", name, h)
+				return nil, dataf("%s:%d: unknown column %q (columns are flag names with '_' for '-', plus log, kind, cal, accepted)", name, hline, h)
 			}
 		}
+		if j, dup := where[key]; dup && key != "" {
+			return nil, dataf("%s:%d: column %q is given twice (columns %d and %d)", name, hline, h, j+1, i+1)
+		}
+		where[key] = i
 		cols[i] = key
 	}
 	var rows []manifestRow
+	ids := map[string]int{} // run_id → manifest line
 	for {
 		rec, err := r.Read()
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		line, _ := r.FieldPos(0)
 		if err != nil {
-			return nil, dataf("%s: %v", name, err)
+			return nil, csvErr(err)
 		}
+		line, _ := r.FieldPos(0)
 		if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
 			continue
 		}
@@ -273,6 +322,8 @@ func readManifest(path string) ([]manifestRow, error) {
 				continue
 			}
 			switch cols[i] {
+			case "":
+				return nil, dataf("%s:%d: %q in column %d, which has no name in the header", name, line, v, i+1)
 			case "log":
 				mr.log = v
 			case "kind":
@@ -293,12 +344,51 @@ func readManifest(path string) ([]manifestRow, error) {
 		if mr.kind != "sample" && mr.kind != "calibration" {
 			return nil, dataf("%s:%d: kind %q is not sample or calibration", name, line, mr.kind)
 		}
+		id := mr.spec.text("run-id")
+		if id == "" {
+			id = strings.TrimSuffix(filepath.Base(mr.log), filepath.Ext(mr.log))
+		}
+		if first, dup := ids[id]; dup {
+			return nil, withHint(dataf("%s:%d: run_id %q is already used on line %d", name, line, id, first),
+				"give each row its own run_id (a run's ledger row and its calibration are found by it)")
+		}
+		ids[id] = line
 		rows = append(rows, mr)
 	}
 	if len(rows) == 0 {
 		return nil, dataf("%s: no runs listed", name)
 	}
 	return rows, nil
+}
+
+// manifestDelimiter is the delimiter of the header line (the first line
+// that is neither blank nor a comment): the most frequent of comma,
+// semicolon and tab outside quotes, comma when there is none.
+func manifestDelimiter(b []byte) rune {
+	for _, line := range strings.Split(string(b), "\n") {
+		line = strings.TrimSpace(line)
+		if line == "" || strings.HasPrefix(line, "#") {
+			continue
+		}
+		count := map[rune]int{}
+		quoted := false
+		for _, c := range line {
+			switch {
+			case c == '"':
+				quoted = !quoted
+			case !quoted && (c == ',' || c == ';' || c == '\t'):
+				count[c]++
+			}
+		}
+		best := ','
+		for _, c := range []rune{';', '\t'} {
+			if count[c] > count[best] {
+				best = c
+			}
+		}
+		return best
+	}
+	return ','
 }
 
 // batchCalibrations resolves a sample's cal cell: run ids of calibration
@@ -310,19 +400,29 @@ func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.Calibra
 	}
 	ids := strings.Split(mr.cal, "+")
 	var runs []*calorimeter.CalibrationRun
+	// A run is its log (sha256) and its process in it (a log with several
+	// heating periods holds several runs): key → the id that brought it.
+	seen := map[string]string{}
 	for _, id := range ids {
 		id = strings.TrimSpace(id)
 		if r, ok := calRuns[id]; ok {
+			for _, run := range r {
+				key := fmt.Sprintf("%s@%.6g", run.SHA256, run.MixTime)
+				if first, dup := seen[key]; dup {
+					return nil, dataf("calibration %q: run %s (%s) is already in it through %q; a run counted twice would shrink the uncertainty of the mean", mr.cal, run.RunID, run.File, first)
+				}
+				seen[key] = id
+			}
 			runs = append(runs, r...)
 		} else if len(ids) > 1 {
-			return nil, dataf("manifest line %d: calibration run %q not found (or it could not be reduced)", mr.line, id)
+			return nil, dataf("calibration run %q not found among the calibration rows (or it could not be reduced)", id)
 		}
 	}
 	if len(runs) == 0 {
 		if strings.HasSuffix(strings.ToLower(mr.cal), ".json") {
 			return nil, nil // a calibration file
 		}
-		return nil, dataf("manifest line %d: calibration %q is neither a calibration row's run_id nor a .json calibration file (or its run could not be reduced)", mr.line, mr.cal)
+		return nil, dataf("calibration %q is neither a calibration row's run_id nor a .json calibration file (or its run could not be reduced)", mr.cal)
 	}
 	cal, err := calorimeter.Combine(runs, time.Now(), version)
 	if err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -44,12 +45,30 @@ func runCalibrate(a *app, args []string) error {
 	}
 	flags := newSpec()
 	flags.fromFlags(fs)
+	if err := a.checkOutFlags(fs, out, fs.Args()...); err != nil {
+		return err
+	}
+	if *output != "" {
+		if err := checkOutPath("-o", *output); err != nil {
+			return err
+		}
+		if err := checkNotInput("-o", *output, fs.Args()...); err != nil {
+			return err
+		}
+	}
 	var runs []*calibrationResult
+	seen := map[string]string{} // sha256 → file
 	for _, path := range fs.Args() {
 		crs, err := calibrateLog(a, path, flags, out.limits)
 		if err != nil {
 			return err
 		}
+		in := crs[0].in
+		if first, dup := seen[in.sha256]; dup {
+			return withHint(usagef("%s: the same readings as %s (sha256 %.12s…): a run counted twice would shrink the uncertainty of the mean", in.name, first, in.sha256),
+				"give each calibration log once")
+		}
+		seen[in.sha256] = in.name
 		runs = append(runs, crs...)
 	}
 	crs := make([]*calorimeter.CalibrationRun, len(runs))
@@ -60,8 +79,21 @@ func runCalibrate(a *app, args []string) error {
 	if err != nil {
 		return dataErr(err)
 	}
+	// Everything that can fail is done before the ledger is touched: the
+	// report is rendered, the files are staged.
+	var report bytes.Buffer
+	if *out.json {
+		err = writeJSON(&report, calibrationJSON(cal, runs))
+	} else {
+		err = writeCalibrationText(&report, cal, runs)
+	}
+	if err != nil {
+		return err
+	}
+	var outs outputs
+	defer outs.discard()
 	if *output != "" {
-		if err := writeAtomic(*output, func(w io.Writer) error { return calorimeter.WriteCalibration(w, cal) }); err != nil {
+		if err := outs.stage("-o", *output, func(w io.Writer) error { return calorimeter.WriteCalibration(w, cal) }); err != nil {
 			return err
 		}
 	}
@@ -74,7 +106,7 @@ func runCalibrate(a *app, args []string) error {
 			}
 			th := thermogram(fmt.Sprintf("%s — ε = %.1f ± %.1f J/K", r.run.RunID, r.run.HeatCapacity, r.run.UHeatCapacity),
 				r.t, r.theta, r.run.Rise)
-			if err := writePlot(name, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
+			if err := stagePlot(&outs, name, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
 				return err
 			}
 		}
@@ -90,14 +122,11 @@ func runCalibrate(a *app, args []string) error {
 		if err := appendLedger(*out.ledger, rows...); err != nil {
 			return err
 		}
-	} else if *out.supersede != "" {
-		return usagef("--supersede needs --ledger: it names the ledger row this result replaces")
 	}
-	if *out.json {
-		if err := writeJSON(a.stdout, calibrationJSON(cal, runs)); err != nil {
-			return err
-		}
-	} else if err := writeCalibrationText(a.stdout, cal, runs); err != nil {
+	if err := outs.commit(); err != nil {
+		return err
+	}
+	if _, err := a.stdout.Write(report.Bytes()); err != nil {
 		return err
 	}
 	if cal.Status == calorimeter.Fail {
@@ -243,7 +272,7 @@ func calibrationSetup(ri *runInput) (calorimeter.CalibrationSetup, []calorimeter
 			}
 			m, _, err := calorimeter.MolarMass(f)
 			if err != nil {
-				return st, nil, s.fail("formula", err)
+				return st, nil, withHint(s.fail("formula", err), formulaHint(f))
 			}
 			h := v["reference-enthalpy"]
 			ch.Standard = calorimeter.Standard{Name: f, Formula: f, MolarMass: m, Weighed: true, Enthalpy: h.Value, UEnthalpy: h.U,

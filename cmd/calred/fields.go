@@ -21,37 +21,38 @@ type field struct {
 	text bool            // free text, not a quantity
 	use  string          // which commands: r reduce, c calibrate
 	help string
+	sign byte // '+': the value must be > 0; '0': it must be ≥ 0; 0: any value
 }
 
 var fields = []field{
 	// The sample.
-	{name: "sample-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of the solute dissolved (or of the standard), g"},
+	{name: "sample-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of the solute dissolved (or of the standard), g", sign: '+'},
 	{name: "formula", text: true, use: "rc", help: "chemical formula of the solute, e.g. KNO3 or CuSO4·5H2O"},
-	{name: "molar-mass", dim: units.MolarMass, unit: "g/mol", use: "rc", help: "molar mass of the solute, g/mol (instead of --formula)"},
-	{name: "solvent-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of solvent (water) in the vessel, g"},
-	{name: "solution-cp", dim: units.SpecificHeat, unit: "J/(g·K)", use: "rc", help: "specific heat of the solution, J/(g·K) (default: water at the run's mean temperature)"},
-	{name: "u-mass", dim: units.Mass, unit: "g", use: "rc", help: "standard uncertainty of each weighing, g (default 0.0005 g, stated in the output)"},
+	{name: "molar-mass", dim: units.MolarMass, unit: "g/mol", use: "rc", help: "molar mass of the solute, g/mol (instead of --formula)", sign: '+'},
+	{name: "solvent-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of solvent (water) in the vessel, g", sign: '+'},
+	{name: "solution-cp", dim: units.SpecificHeat, unit: "J/(g·K)", use: "rc", help: "specific heat of the solution, J/(g·K) (default: water at the run's mean temperature)", sign: '+'},
+	{name: "u-mass", dim: units.Mass, unit: "g", use: "rc", help: "standard uncertainty of each weighing, g (default 0.0005 g, stated in the output)", sign: '0'},
 	// The calorimeter.
-	{name: "cal", text: true, use: "r", help: "calibration file written by `calred calibrate -o`"},
-	{name: "heat-capacity", dim: units.HeatCapacity, unit: "J/K", use: "r", help: "total heat capacity of the calorimeter, J/K, e.g. 452±0.8J/K"},
+	{name: "cal", text: true, use: "r", help: "calibration `FILE` written by calred calibrate -o"},
+	{name: "heat-capacity", dim: units.HeatCapacity, unit: "J/K", use: "r", help: "total heat capacity of the calorimeter, J/K, e.g. 452±0.8J/K", sign: '+'},
 	// Calibrations.
-	{name: "heater-power", dim: units.Power, unit: "W", use: "c", help: "electrical calibration: heater power, W"},
-	{name: "heater-time", dim: units.Time, unit: "s", use: "c", help: "electrical calibration: heating time, s"},
-	{name: "heater-voltage", dim: units.Voltage, unit: "V", use: "c", help: "electrical calibration: heater voltage, V (with --heater-current)"},
-	{name: "heater-current", dim: units.Current, unit: "A", use: "c", help: "electrical calibration: heater current, A (with --heater-voltage)"},
+	{name: "heater-power", dim: units.Power, unit: "W", use: "c", help: "electrical calibration: heater power, W", sign: '+'},
+	{name: "heater-time", dim: units.Time, unit: "s", use: "c", help: "electrical calibration: heating time, s", sign: '+'},
+	{name: "heater-voltage", dim: units.Voltage, unit: "V", use: "c", help: "electrical calibration: heater voltage, V (with --heater-current)", sign: '+'},
+	{name: "heater-current", dim: units.Current, unit: "A", use: "c", help: "electrical calibration: heater current, A (with --heater-voltage)", sign: '+'},
 	{name: "standard", text: true, use: "c", help: "chemical calibration: built-in standard (kcl, tris-hcl, tris-naoh, neutralisation)"},
-	{name: "amount", dim: units.Amount, unit: "mol", use: "c", help: "chemical calibration: amount of the limiting reagent, mol (for neutralisation, which is not weighed)"},
+	{name: "amount", dim: units.Amount, unit: "mol", use: "c", help: "chemical calibration: amount of the limiting reagent, mol (for neutralisation, which is not weighed)", sign: '+'},
 	{name: "reference-enthalpy", dim: units.MolarEnthalpy, unit: "kJ/mol", use: "c", help: "chemical calibration: ΔsolH of the substance given by --formula, kJ/mol with ±u"},
-	{name: "cold-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of cold water in the vessel, g"},
-	{name: "hot-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of hot water added, g"},
+	{name: "cold-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of cold water in the vessel, g", sign: '+'},
+	{name: "hot-mass", dim: units.Mass, unit: "g", use: "c", help: "mixing calibration: mass of hot water added, g", sign: '+'},
 	{name: "hot-temperature", dim: units.Temperature, unit: "°C", use: "c", help: "mixing calibration: temperature of the hot water when poured, °C"},
-	{name: "contents-mass", dim: units.Mass, unit: "g", use: "c", help: "liquid mass present during the calibration, g (splits off the vessel's own heat capacity)"},
+	{name: "contents-mass", dim: units.Mass, unit: "g", use: "c", help: "liquid mass present during the calibration, g (splits off the vessel's own heat capacity)", sign: '+'},
 	// Periods and method.
-	{name: "mix-time", dim: units.Time, unit: "s", use: "rc", help: "time the process started, s from the first reading (default: detected)"},
+	{name: "mix-time", dim: units.Time, unit: "s", use: "rc", help: "time the process started, s from the first reading (default: detected)", sign: '+'},
 	{name: "pre", text: true, use: "rc", help: "fore period START:END, s (default: detected)"},
 	{name: "post", text: true, use: "rc", help: "after period START:END, s (default: detected)"},
 	{name: "method", text: true, use: "rc", help: "correction method: auto, regnault-pfaundler, dickinson, extrapolation, model"},
-	{name: "u-temperature", dim: units.TemperatureDifference, unit: "K", use: "rc", help: "standard uncertainty of the probe calibration, K (default: none)"},
+	{name: "u-temperature", dim: units.TemperatureDifference, unit: "K", use: "rc", help: "standard uncertainty of the probe calibration, K (default: none)", sign: '0'},
 	// Log reading.
 	{name: "time-column", text: true, use: "rc", help: "name or 1-based number of the time column (default: detected)"},
 	{name: "temperature-column", text: true, use: "rc", help: "name or 1-based number of the temperature column (default: detected)"},
@@ -114,6 +115,12 @@ func (s *spec) quantity(name string) (q units.Quantity, ok bool, err error) {
 	q, err = units.Parse(s.values[name], f.dim, f.unit)
 	if err != nil {
 		return q, false, s.fail(name, err)
+	}
+	switch {
+	case f.sign == '+' && !(q.Value > 0):
+		return q, false, s.failf(name, "%q must be greater than 0 %s", s.text(name), f.unit)
+	case f.sign == '0' && !(q.Value >= 0):
+		return q, false, s.failf(name, "%q must not be negative", s.text(name))
 	}
 	return q, true, nil
 }

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"path/filepath"
 
 	"calred/calorimeter/logfile"
@@ -31,9 +30,7 @@ func runInspect(a *app, args []string) error {
 	s := logfile.Summarise(log)
 	s.File = filepath.Base(fs.Arg(0))
 	if *asJSON {
-		enc := json.NewEncoder(a.stdout)
-		enc.SetIndent("", "  ")
-		return enc.Encode(s)
+		return writeJSON(a.stdout, s)
 	}
 	return s.WriteText(a.stdout)
 }

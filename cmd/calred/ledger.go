@@ -24,7 +24,7 @@ func runLedger(a *app, args []string) error {
 	if len(args) == 0 || args[0] == "--help" || args[0] == "-h" {
 		fs := newFlags(a, "ledger", "verify|show|chart LEDGER.csv [flags]", ledgerAbout)
 		if len(args) == 0 {
-			return withHint(usagef("ledger: want verify, show or chart"), "calred ledger verify results.csv")
+			return withHint(usagef("ledger: want verify, show or chart"), "e.g. `calred ledger verify results.csv`")
 		}
 		fs.Usage()
 		return nil
@@ -37,7 +37,7 @@ func runLedger(a *app, args []string) error {
 	case "chart":
 		return runLedgerChart(a, args[1:])
 	}
-	return withHint(usagef("ledger: unknown action %q (use verify, show or chart)", args[0]), "calred ledger --help")
+	return withHint(usagef("ledger: unknown action %q (use verify, show or chart)", args[0]), "`calred ledger --help` lists them")
 }
 
 func oneLedger(a *app, fsName string, fs interface {
@@ -154,7 +154,7 @@ func runLedgerChart(a *app, args []string) error {
 		"Draw an individuals control chart of a recorded quantity in time order: centre line,\n"+
 			"±2σ and ±3σ limits with σ from the average moving range / 1.128 (NIST/SEMATECH\n"+
 			"e-Handbook of Statistical Methods, §6.3.2), points that break a run rule marked and listed.")
-	output := fs.StringP("output", "o", "", "write the chart to FILE.svg or FILE.png")
+	output := fs.StringP("output", "o", "", "write the chart to FILE.svg, FILE.png or FILE.pdf")
 	quantity := fs.String("quantity", "heat-capacity", "what to chart: heat-capacity (J/K) or molar-enthalpy (kJ/mol)")
 	kind := fs.String("kind", "", "only rows of this kind (default: calibration for heat-capacity, sample for molar-enthalpy)")
 	sampleID := fs.String("sample-id", "", "only rows with this sample id")
@@ -168,6 +168,15 @@ func runLedgerChart(a *app, args []string) error {
 	}
 	if *output == "" {
 		return withHint(usagef("ledger chart: give the output file with -o FILE.svg or -o FILE.png"), "")
+	}
+	if _, err := plot.FormatFromName(*output); err != nil {
+		return usagef("-o %s: %w", *output, err)
+	}
+	if err := checkOutPath("-o", *output); err != nil {
+		return err
+	}
+	if err := checkNotInput("-o", *output, path); err != nil {
+		return err
 	}
 	var pick func(r ledger.Row) float64
 	unit := ""
@@ -221,9 +230,15 @@ func runLedgerChart(a *app, args []string) error {
 		return dataErr(err)
 	}
 	name := strings.ReplaceAll(*quantity, "-", " ")
-	if err := writePlot(*output, func(w io.Writer, format string) error {
+	format, _ := plot.FormatFromName(*output)
+	var outs outputs
+	defer outs.discard()
+	if err := outs.stage("-o", *output, func(w io.Writer) error {
 		return plot.WriteControlChart(w, format, chart, pts, name, unit, plot.Options{})
 	}); err != nil {
+		return err
+	}
+	if err := outs.commit(); err != nil {
 		return err
 	}
 	fmt.Fprintf(a.stdout, "Control chart of %s (%s), %d runs of kind %s → %s\n", name, unit, len(vals), *kind, *output)

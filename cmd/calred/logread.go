@@ -58,8 +58,12 @@ func logOptions(s *spec) (logfile.Options, error) {
 	switch u := strings.TrimPrefix(strings.ToUpper(opt.TemperatureUnit), "°"); u {
 	case "", "C", "K", "F":
 		opt.TemperatureUnit = u
-	case "DEGC":
+	case "DEGC", "CELSIUS", "DEG C":
 		opt.TemperatureUnit = "C"
+	case "DEGF", "FAHRENHEIT", "DEG F":
+		opt.TemperatureUnit = "F"
+	case "KELVIN":
+		opt.TemperatureUnit = "K"
 	default:
 		return opt, s.failf("temperature-unit", "unknown temperature unit %q (use C, K or F)", opt.TemperatureUnit)
 	}

@@ -1,6 +1,9 @@
 package main
 
 import (
+	"encoding/json"
+	"fmt"
+	"io"
 	"os"
 	"strconv"
 	"strings"
@@ -28,6 +31,22 @@ func TestScripts(t *testing.T) {
 			return nil
 		},
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
+			// json FILE [PATH...]: FILE (stdout for the last command's output)
+			// holds exactly one JSON value, and each dotted PATH
+			// (drift.pre.n) names a member of it, null allowed.
+			"json": func(ts *testscript.TestScript, neg bool, args []string) {
+				if len(args) < 1 {
+					ts.Fatalf("usage: json FILE [PATH...]")
+				}
+				err := jsonHas(ts.ReadFile(args[0]), args[1:])
+				if neg {
+					if err == nil {
+						ts.Fatalf("%s: want invalid JSON or a missing member", args[0])
+					}
+					return
+				}
+				ts.Check(err)
+			},
 			// replace-in-line FILE LINE OLD NEW: change the first OLD on one line of FILE.
 			"replace-in-line": func(ts *testscript.TestScript, neg bool, args []string) {
 				if neg || len(args) != 4 {
@@ -47,4 +66,29 @@ func TestScripts(t *testing.T) {
 			},
 		},
 	})
+}
+
+// jsonHas checks that text is one JSON value with every dotted path in it.
+func jsonHas(text string, paths []string) error {
+	dec := json.NewDecoder(strings.NewReader(text))
+	var v any
+	if err := dec.Decode(&v); err != nil {
+		return fmt.Errorf("not JSON: %w", err)
+	}
+	if _, err := dec.Token(); err != io.EOF {
+		return fmt.Errorf("more than one JSON value")
+	}
+	for _, p := range paths {
+		cur := v
+		for _, k := range strings.Split(p, ".") {
+			obj, ok := cur.(map[string]any)
+			if !ok {
+				return fmt.Errorf("%s: %q is not inside an object", p, k)
+			}
+			if cur, ok = obj[k]; !ok {
+				return fmt.Errorf("%s: no member %q", p, k)
+			}
+		}
+	}
+	return nil
 }

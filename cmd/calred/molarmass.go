@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"text/tabwriter"
 
@@ -30,14 +29,12 @@ func runMolarMass(a *app, args []string) error {
 	for _, f := range fs.Args() {
 		m, u, err := calorimeter.MolarMass(f)
 		if err != nil {
-			return usagef("%w", err)
+			return withHint(usagef("%w", err), formulaHint(f))
 		}
 		rows = append(rows, row{f, m, u})
 	}
 	if *asJSON {
-		enc := json.NewEncoder(a.stdout)
-		enc.SetIndent("", "  ")
-		return enc.Encode(rows)
+		return writeJSON(a.stdout, rows)
 	}
 	tw := tabwriter.NewWriter(a.stdout, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "formula\tM / (g/mol)\tu(M) / (g/mol)")

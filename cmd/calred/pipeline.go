@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"unicode"
 
 	flag "github.com/spf13/pflag"
 
@@ -37,7 +38,7 @@ type limitFlags struct {
 func addOutFlags(fs *flag.FlagSet, mc bool) *outFlags {
 	o := &outFlags{}
 	o.json = fs.Bool("json", false, "print one JSON object instead of the report")
-	o.plot = fs.String("plot", "", "draw the thermogram with its fits to FILE.svg or FILE.png")
+	o.plot = fs.String("plot", "", "draw the thermogram with its fits to FILE.svg, FILE.png or FILE.pdf")
 	if mc {
 		o.monteCarlo = fs.String("monte-carlo", "", "also propagate by Monte Carlo (JCGM 101): N trials, or auto for the adaptive procedure")
 		o.seed = fs.Uint64("seed", 1, "seed of the Monte Carlo random stream (same seed, same result)")
@@ -159,11 +160,12 @@ func riseOptions(s *spec, lf limitFlags) (calorimeter.RiseOptions, error) {
 }
 
 // parsePeriod reads START:END with optional units on each end ("0:300",
-// "0s:5min", "60:4.5min"). A bare number is in seconds.
+// "0s:5min", "60:4.5min"). A bare number is in seconds, counted from the
+// first reading, so neither end may be negative.
 func parsePeriod(text string) (calorimeter.Period, error) {
 	a, b, ok := strings.Cut(text, ":")
-	if !ok {
-		return calorimeter.Period{}, fmt.Errorf("%q: want START:END in s, e.g. 0:300", text)
+	if !ok || strings.Contains(b, ":") || strings.TrimSpace(a) == "" || strings.TrimSpace(b) == "" {
+		return calorimeter.Period{}, fmt.Errorf("%q: want START:END in s from the first reading, e.g. 0:300", text)
 	}
 	qa, err := units.Parse(a, units.Time, "s")
 	if err != nil {
@@ -173,10 +175,52 @@ func parsePeriod(text string) (calorimeter.Period, error) {
 	if err != nil {
 		return calorimeter.Period{}, err
 	}
+	if qa.Value < 0 {
+		return calorimeter.Period{}, fmt.Errorf("%q: the start %g s is before the first reading (times count from it, at 0 s)", text, qa.Value)
+	}
 	if !(qb.Value > qa.Value) {
 		return calorimeter.Period{}, fmt.Errorf("%q: the end %g s is not after the start %g s", text, qb.Value, qa.Value)
 	}
 	return calorimeter.Period{Start: qa.Value, End: qb.Value}, nil
+}
+
+// checkTimes holds the mixing time and the periods a run's description
+// gives against the log and against each other, so that a value the user
+// typed is named as theirs (a flag, a manifest cell or a line of the log).
+// Each period must start inside the log; the process starts inside the
+// log, after the fore period and before the after period.
+func checkTimes(ri *runInput, opt calorimeter.RiseOptions) error {
+	t := ri.log.Time
+	if len(t) == 0 {
+		return nil
+	}
+	end := t[len(t)-1]
+	s := ri.spec
+	zero := ""
+	if ri.log.TimeZero != 0 {
+		zero = fmt.Sprintf("; times count from the first reading, which the file writes as %g s", ri.log.TimeZero)
+	}
+	if !math.IsNaN(opt.MixTime) && !(opt.MixTime < end) {
+		return s.failf("mix-time", "%g s is not inside the log, whose readings run from 0 to %g s%s", opt.MixTime, end, zero)
+	}
+	for _, p := range []struct {
+		name string
+		per  *calorimeter.Period
+	}{{"pre", opt.Pre}, {"post", opt.Post}} {
+		if p.per != nil && !(p.per.Start < end) {
+			return s.failf(p.name, "%s starts at %g s, after the last reading at %g s%s", s.text(p.name), p.per.Start, end, zero)
+		}
+	}
+	mix := opt.MixTime
+	switch {
+	case opt.Pre != nil && !math.IsNaN(mix) && opt.Pre.End > mix:
+		return s.failf("pre", "the fore period %s ends after the process starts (%g s, --mix-time)", s.text("pre"), mix)
+	case opt.Post != nil && !math.IsNaN(mix) && opt.Post.Start < mix:
+		return s.failf("post", "the after period %s starts before the process (%g s, --mix-time)", s.text("post"), mix)
+	case opt.Pre != nil && opt.Post != nil && !(opt.Pre.End < opt.Post.Start):
+		return s.failf("post", "the after period %s does not start after the fore period %s ends", s.text("post"), s.text("pre"))
+	}
+	return nil
 }
 
 // analyse runs the corrected-temperature analysis on a loaded run.
@@ -185,15 +229,33 @@ func analyse(ri *runInput, lf limitFlags) (*calorimeter.Rise, error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := checkTimes(ri, opt); err != nil {
+		return nil, err
+	}
 	rise, err := calorimeter.AnalyseRise(ri.log.Time, ri.log.Temperature, opt)
 	if err != nil {
-		hint := ""
-		if errors.Is(err, calorimeter.ErrNoProcess) {
-			hint = "look at the log with `calred inspect`, or give the mixing time with --mix-time (s from the first reading)"
-		}
-		return nil, withHint(dataf("%s: %w", ri.name, err), hint)
+		return nil, withHint(dataf("%s: %w", ri.name, err), riseHint(ri.spec, err))
 	}
 	return rise, nil
+}
+
+// riseHint is the next step after a failed analysis: the mixing time when
+// the process was not found by itself, a look at the periods when they
+// were given.
+func riseHint(s *spec, err error) string {
+	if !errors.Is(err, calorimeter.ErrNoProcess) {
+		return ""
+	}
+	var given []string
+	for _, n := range []string{"mix-time", "pre", "post"} {
+		if s.has(n) {
+			given = append(given, fmt.Sprintf("--%s %s", n, s.text(n)))
+		}
+	}
+	if len(given) == 0 {
+		return "look at the log with `calred inspect`, or give the mixing time with --mix-time (s from the first reading)"
+	}
+	return fmt.Sprintf("no change beyond the noise was found with the times given (%s): check them against the readings; `calred inspect` gives the log's span", strings.Join(given, ", "))
 }
 
 // sampleOf reads the sample description.
@@ -223,7 +285,7 @@ func sampleOf(s *spec) (calorimeter.Sample, error) {
 	} else if smp.Formula != "" {
 		m, u, err := calorimeter.MolarMass(smp.Formula)
 		if err != nil {
-			return smp, s.fail("formula", err)
+			return smp, withHint(s.fail("formula", err), formulaHint(smp.Formula))
 		}
 		smp.MolarMass, smp.UMolarMass = m, u
 	} else {
@@ -240,6 +302,20 @@ func sampleOf(s *spec) (calorimeter.Sample, error) {
 		smp.SolutionCp, smp.USolutionCp = q.Value, q.U
 	}
 	return smp, nil
+}
+
+// formulaHint is the next step for a formula that does not parse: the
+// capital letters, when the formula has none where a symbol starts.
+func formulaHint(f string) string {
+	for _, r := range f {
+		if unicode.IsLetter(r) {
+			if unicode.IsLower(r) {
+				return "write it with capitals where symbols start, e.g. KNO3, NaCl, NH4NO3 or CuSO4·5H2O"
+			}
+			return ""
+		}
+	}
+	return ""
 }
 
 // uMass is the balance uncertainty of a run (the default stated in reports).

@@ -5,11 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"time"
+
+	flag "github.com/spf13/pflag"
 
 	"calred/calorimeter"
 	"calred/calorimeter/ledger"
@@ -17,15 +18,19 @@ import (
 )
 
 // finishRun prints a result, draws its plot and appends its ledger row.
-// The report goes to stdout first; the plot is written to a temporary file
-// and renamed, the ledger row is appended whole or not at all.
+// The report is rendered first and the plot staged (see staged); then the
+// ledger row is appended, whole or not at all, and only then the plot is
+// renamed into place and the report printed. A failure at any step leaves
+// no new file, no row and nothing on stdout.
 func (a *app) finishRun(row ledger.Row, out *outFlags, th *plot.Thermogram, report func(io.Writer) error) error {
 	var buf bytes.Buffer
 	if err := report(&buf); err != nil {
 		return err
 	}
+	var outs outputs
+	defer outs.discard()
 	if *out.plot != "" && th != nil {
-		if err := writePlot(*out.plot, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
+		if err := stagePlot(&outs, *out.plot, func(w io.Writer, format string) error { return plotThermogram(w, format, th) }); err != nil {
 			return err
 		}
 	}
@@ -34,56 +39,71 @@ func (a *app) finishRun(row ledger.Row, out *outFlags, th *plot.Thermogram, repo
 		if err := appendLedger(*out.ledger, row); err != nil {
 			return err
 		}
-	} else if *out.supersede != "" {
-		return usagef("--supersede needs --ledger: it names the ledger row this result replaces")
+	}
+	if err := outs.commit(); err != nil {
+		return err
 	}
 	_, err := a.stdout.Write(buf.Bytes())
 	return err
+}
+
+// checkOutFlags looks at the output and record-keeping flags before any
+// work: the files they name, --supersede without --ledger, and --seed
+// without --monte-carlo (warned about: it changes nothing). inputs are the
+// run's input files, which no output may overwrite.
+func (a *app) checkOutFlags(fs *flag.FlagSet, out *outFlags, inputs ...string) error {
+	if *out.supersede != "" && *out.ledger == "" {
+		return withHint(usagef("--supersede needs --ledger: it names the ledger row this result replaces"), "add --ledger LEDGER.csv, the ledger that holds the row")
+	}
+	if fs.Changed("seed") && (out.monteCarlo == nil || *out.monteCarlo == "") {
+		a.warnf("--seed has no effect without --monte-carlo")
+	}
+	if *out.plot != "" {
+		if _, err := plot.FormatFromName(*out.plot); err != nil {
+			return usagef("--plot %s: %w", *out.plot, err)
+		}
+		if err := checkOutPath("--plot", *out.plot); err != nil {
+			return err
+		}
+		if err := checkNotInput("--plot", *out.plot, inputs...); err != nil {
+			return err
+		}
+	}
+	if *out.ledger != "" {
+		if err := checkOutPath("--ledger", *out.ledger); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 func appendLedger(path string, rows ...ledger.Row) error {
 	for i := range rows {
 		rows[i].ProgramVersion = version
 	}
+	// The ledger's errors name its path.
 	if _, err := ledger.Append(path, rows...); err != nil {
 		var re *ledger.RowError
-		if errors.As(err, &re) {
-			return usagef("%s: %w", filepath.Base(path), err)
+		switch {
+		case errors.As(err, &re) && re.Reason == ledger.ReasonDuplicateRunID:
+			return withHint(usagef("%w", err), fmt.Sprintf("a corrected result takes --supersede %s; a new run takes its own --run-id", re.RunID))
+		case errors.As(err, &re):
+			return usagef("%w", err)
+		case errors.Is(err, fs.ErrPermission):
+			return withHint(err, "the ledger and its directory must be writable: the lock file LEDGER.csv.lock is made beside it")
 		}
-		return dataf("%s: %w", filepath.Base(path), err)
+		return dataErr(err)
 	}
 	return nil
 }
 
-// writePlot writes a figure to name (format from its extension) through a
-// temporary file in the same directory, renamed into place when complete.
-func writePlot(name string, draw func(w io.Writer, format string) error) error {
+// stagePlot stages a figure (format from the file's extension).
+func stagePlot(outs *outputs, name string, draw func(w io.Writer, format string) error) error {
 	format, err := plot.FormatFromName(name)
 	if err != nil {
 		return usagef("--plot %s: %w", name, err)
 	}
-	return writeAtomic(name, func(w io.Writer) error { return draw(w, format) })
-}
-
-func writeAtomic(name string, write func(w io.Writer) error) error {
-	f, err := os.CreateTemp(filepath.Dir(name), "."+filepath.Base(name)+".tmp*")
-	if err != nil {
-		return err
-	}
-	tmp := f.Name()
-	defer os.Remove(tmp)
-	if err := write(f); err != nil {
-		f.Close()
-		return fmt.Errorf("%s: %w", name, err)
-	}
-	if err := f.Sync(); err != nil {
-		f.Close()
-		return err
-	}
-	if err := f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp, name)
+	return outs.stage("--plot", name, func(w io.Writer) error { return draw(w, format) })
 }
 
 // checksSummary is the compact form of the checks kept in the ledger.

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -41,6 +40,12 @@ func runReduce(a *app, args []string) error {
 	if err != nil {
 		return err
 	}
+	if err := a.checkOutFlags(fs, out, fs.Arg(0)); err != nil {
+		return err
+	}
+	if _, _, err := flags.quantity("accepted"); err != nil {
+		return err
+	}
 	res, err := reduceSample(a, fs.Arg(0), flags, "", nil, out.limits)
 	if err != nil {
 		return err
@@ -56,7 +61,7 @@ func runReduce(a *app, args []string) error {
 	if mc >= 0 {
 		m, err := res.red.MonteCarlo(mc, *out.seed, runtime.NumCPU())
 		if err != nil {
-			return fmt.Errorf("monte carlo: %w", err)
+			return err // the package's errors start with "monte carlo:"
 		}
 		res.mc = m
 	}
@@ -74,6 +79,14 @@ func runReduce(a *app, args []string) error {
 	return nil
 }
 
+// The trial counts calorimeter.Reduction.MonteCarlo accepts: at least
+// 100/(1 − p) = 2000 for a 95 % interval (JCGM 101:2008 7.9.4 b) and at
+// most 1e7 (the memory bound of the package).
+const (
+	mcMinTrials = 2000
+	mcMaxTrials = 10_000_000
+)
+
 // monteCarloTrials reads --monte-carlo: -1 none, 0 adaptive, else N.
 func monteCarloTrials(o *outFlags) (int, error) {
 	if o.monteCarlo == nil || *o.monteCarlo == "" {
@@ -82,9 +95,10 @@ func monteCarloTrials(o *outFlags) (int, error) {
 	if strings.EqualFold(*o.monteCarlo, "auto") {
 		return 0, nil
 	}
-	n, err := strconv.ParseFloat(*o.monteCarlo, 64)
-	if err != nil || n < 1e3 || n > 1e8 || n != math.Trunc(n) {
-		return 0, usagef("flag --monte-carlo: %q is not auto or a whole number of trials between 1000 and 1e8", *o.monteCarlo)
+	n, err := strconv.ParseFloat(strings.TrimSpace(*o.monteCarlo), 64)
+	if err != nil || n < mcMinTrials || n > mcMaxTrials || n != math.Trunc(n) {
+		return 0, withHint(usagef("flag --monte-carlo: %q is not auto or a whole number of trials from %d to %g", *o.monteCarlo, mcMinTrials, float64(mcMaxTrials)),
+			"--monte-carlo auto picks the number of trials by itself (JCGM 101 7.9)")
 	}
 	return int(n), nil
 }
@@ -238,12 +252,6 @@ func finiteOrNil(v float64) any {
 		return nil
 	}
 	return v
-}
-
-func writeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(v)
 }
 
 // writeText is the readable report of a sample run.

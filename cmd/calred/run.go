@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"regexp"
 	"runtime"
 	"runtime/debug"
 	"strings"
@@ -108,7 +109,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	name, rest := args[0], args[1:]
 	switch name {
 	case "-h", "--help", "help":
-		if len(rest) > 0 && name == "help" {
+		if len(rest) > 0 && name == "help" && rest[0] != "help" {
 			return a.finish(helpFor(a, rest[0]))
 		}
 		writeUsage(stdout)
@@ -134,10 +135,13 @@ func (a *app) finish(err error) int {
 	if errors.Is(err, errCheckFailed) {
 		return exitCheckFail
 	}
-	fmt.Fprintf(a.stderr, "calred: %s\n", oneLine(err.Error()))
+	msg, inner := splitHint(oneLine(err.Error()))
+	fmt.Fprintf(a.stderr, "calred: %s\n", msg)
 	var h *hintError
 	if errors.As(err, &h) && h.hint != "" {
 		fmt.Fprintf(a.stderr, "calred: hint: %s\n", h.hint)
+	} else if inner != "" {
+		fmt.Fprintf(a.stderr, "calred: hint: %s\n", inner)
 	}
 	var u *usageError
 	var d *dataError
@@ -148,6 +152,19 @@ func (a *app) finish(err error) int {
 		return exitData
 	}
 	return exitOther
+}
+
+// hintInMessage is a next step that a library error carries in its text;
+// it goes on the hint line, not on the error line.
+var hintInMessage = regexp.MustCompile(` ?\(hint: ([^()]*)\)`)
+
+// splitHint takes a "(hint: …)" out of an error message and returns both.
+func splitHint(msg string) (rest, hint string) {
+	m := hintInMessage.FindStringSubmatchIndex(msg)
+	if m == nil {
+		return msg, ""
+	}
+	return msg[:m[0]] + msg[m[1]:], msg[m[2]:m[3]]
 }
 
 func oneLine(s string) string { return strings.ReplaceAll(strings.TrimSpace(s), "\n", "; ") }
@@ -180,7 +197,11 @@ func newFlags(a *app, name, args, about string) *flag.FlagSet {
 	fs.SetOutput(io.Discard)
 	fs.SortFlags = false
 	fs.Usage = func() {
-		fmt.Fprintf(a.stdout, "Usage: calred %s %s\n\n%s\n\nFlags:\n", name, args, about)
+		fmt.Fprintf(a.stdout, "Usage: %s\n\n%s\n\nFlags:\n", strings.TrimSpace("calred "+name+" "+args), about)
+		if !fs.HasFlags() {
+			fmt.Fprintln(a.stdout, "  none")
+			return
+		}
 		fs.SetOutput(a.stdout)
 		fs.PrintDefaults()
 		fs.SetOutput(io.Discard)
@@ -192,8 +213,7 @@ func newFlags(a *app, name, args, about string) *flag.FlagSet {
 func parseFlags(fs *flag.FlagSet, args []string) error {
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
-			fs.Usage()
-			return err
+			return err // pflag has printed the usage
 		}
 		return withHint(&usageError{err}, fmt.Sprintf("run `calred %s --help` for the flags", fs.Name()))
 	}
@@ -230,6 +250,10 @@ func openInput(name string) (*os.File, error) {
 			return nil, dataf("%s: %v", name, pe.Err)
 		}
 		return nil, dataErr(err)
+	}
+	if fi, err := f.Stat(); err == nil && fi.IsDir() {
+		f.Close()
+		return nil, dataf("%s: is a directory, not a file", name)
 	}
 	return f, nil
 }
