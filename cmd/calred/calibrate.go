@@ -139,6 +139,7 @@ type calibrationResult struct {
 	in        *runInput
 	run       *calorimeter.CalibrationRun
 	t, theta  []float64 // the readings the run was reduced from (the whole log, or a pulse's window)
+	lines     []int     // their lines in the log
 	pulse     *calorimeter.Pulse
 	window    calorimeter.Period
 	of, total int // heating period of a log with several: 1-based number and count
@@ -167,7 +168,7 @@ func calibrateLog(a *app, path string, over *spec, lf limitFlags) ([]*calibratio
 	if err != nil {
 		return nil, dataf("%s: %w", ri.name, err)
 	}
-	return []*calibrationResult{{in: ri, run: run, t: ri.log.Time, theta: ri.log.Temperature}}, nil
+	return []*calibrationResult{{in: ri, run: run, t: ri.log.Time, theta: ri.log.Temperature, lines: ri.log.Line}}, nil
 }
 
 // calibratePulses reduces a log with several heating periods, one run each.
@@ -191,7 +192,7 @@ func calibratePulses(ri *runInput, setup calorimeter.CalibrationSetup, pulses []
 		w := pc.Windows[i]
 		lo := sort.SearchFloat64s(ri.log.Time, w.Start)
 		hi := sort.SearchFloat64s(ri.log.Time, w.End) + 1
-		out[i] = &calibrationResult{in: ri, run: run, t: ri.log.Time[lo:hi], theta: ri.log.Temperature[lo:hi],
+		out[i] = &calibrationResult{in: ri, run: run, t: ri.log.Time[lo:hi], theta: ri.log.Temperature[lo:hi], lines: ri.log.Line[lo:hi],
 			pulse: &pulses[i], window: w, of: i + 1, total: len(pulses)}
 	}
 	return out, nil
@@ -382,6 +383,12 @@ func calibrationJSON(cal *calorimeter.Calibration, results []*calibrationResult)
 			m["periods"] = periodsOf(r.Rise)
 			m["methods"] = r.Rise.Methods
 			m["drift"] = map[string]calorimeter.Drift{"pre": r.Rise.PreDrift, "post": r.Rise.PostDrift}
+			var t []float64
+			var lines []int
+			if i < len(results) {
+				t, lines = results[i].t, results[i].lines
+			}
+			riseExtras(m, r.Rise, t, lines)
 		}
 		if r.Budget != nil {
 			m["budget"] = budgetJSON(r.Budget)
@@ -431,6 +438,7 @@ func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*cal
 		}
 		fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", run.Points, r.in.sha256)
 		writeRiseText(w, run.Rise)
+		writeExcludedText(w, run.Rise, r.t, r.lines)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		fmt.Fprintf(tw, "Heat put in\t%s\t\n", units.Format(run.Heat, run.UHeat, "J"))
 		if run.StandardName != "" {

@@ -215,6 +215,7 @@ func (r *sampleResult) json() map[string]any {
 		"status":                          red.Status,
 		"sign_convention":                 red.Convention,
 	}
+	riseExtras(m, rise, r.in.log.Time, r.in.log.Line)
 	if r.mc != nil {
 		m["monte_carlo"] = monteCarloJSON{Trials: r.mc.Trials, Mean: r.mc.Mean, U: r.mc.U,
 			Interval: [2]float64{r.mc.Low, r.mc.High}, Validated: r.mc.GUMValidated,
@@ -231,6 +232,60 @@ func (r *sampleResult) json() map[string]any {
 		}
 	}
 	return m
+}
+
+// riseExtras adds what the text report shows of an analysis beyond the
+// contract's keys: u(ΔT) of every method and its parts, the temperatures
+// at the mixing time, the cooling constant and the readings excluded as
+// spikes (t and lines hold the times and log lines of the readings the
+// analysis was given).
+func riseExtras(m map[string]any, rise *calorimeter.Rise, t []float64, lines []int) {
+	parts := make([]map[string]any, 0, len(rise.UParts))
+	for _, p := range rise.UParts {
+		parts = append(parts, map[string]any{"name": p.Name, "u_k": p.U})
+	}
+	m["u_methods_k"] = rise.MethodU
+	m["u_delta_t_parts"] = parts
+	m["delta_t_dof"] = rise.DoF
+	m["initial_temperature_k"] = rise.InitialTemperature
+	m["final_temperature_k"] = rise.FinalTemperature
+	m["cooling_constant_per_s"] = rise.G
+	m["convergence_temperature_k"] = rise.ThetaInf
+	m["reading_noise_k"] = rise.Noise
+	m["excluded_readings"] = excludedReadings(rise, t, lines)
+}
+
+// excludedReading is a reading the analysis left out as a spike.
+type excludedReading struct {
+	Line  int     `json:"line"`
+	TimeS float64 `json:"time_s"`
+}
+
+func excludedReadings(rise *calorimeter.Rise, t []float64, lines []int) []excludedReading {
+	out := make([]excludedReading, 0, len(rise.Excluded))
+	for _, i := range rise.Excluded {
+		if i >= 0 && i < len(t) && i < len(lines) {
+			out = append(out, excludedReading{lines[i], t[i]})
+		}
+	}
+	return out
+}
+
+// writeExcludedText names the readings left out as spikes by log line.
+func writeExcludedText(w io.Writer, rise *calorimeter.Rise, t []float64, lines []int) {
+	ex := excludedReadings(rise, t, lines)
+	if len(ex) == 0 {
+		return
+	}
+	parts := make([]string, 0, len(ex))
+	for i, e := range ex {
+		if i == 10 {
+			parts = append(parts, fmt.Sprintf("and %d more", len(ex)-10))
+			break
+		}
+		parts = append(parts, fmt.Sprintf("line %d (%g s)", e.Line, e.TimeS))
+	}
+	fmt.Fprintf(w, "Readings left out as spikes: %s\n\n", strings.Join(parts, ", "))
 }
 
 // budgetJSON is the budget as CONTRACT's list of terms; infinite degrees of
@@ -260,6 +315,7 @@ func (r *sampleResult) writeText(w io.Writer) error {
 	fmt.Fprintf(w, "Sample run %s — %s\n", r.in.runID, r.in.name)
 	fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", rise.Points, r.in.sha256)
 	writeRiseText(w, rise)
+	writeExcludedText(w, rise, r.in.log.Time, r.in.log.Line)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "Heat capacity ε\t%s\t%s\n", units.Format(red.HeatCapacity, red.UHeatCapacity, "J/K"), red.HeatCapacityBasis)
 	fmt.Fprintf(tw, "Heat to the calorimeter q = ε·ΔT\t%s\t\n", units.Format(red.HeatReleased, red.UHeatReleased, "J"))
