@@ -158,7 +158,7 @@ func (s *spec) fromFlags(fs *flag.FlagSet) {
 }
 
 // fromMeta copies a log's `# key: value` lines that name a field into s,
-// and returns the keys it did not know (reported as warnings).
+// and returns the keys it did not know, in the order of their lines.
 func (s *spec) fromMeta(file string, meta map[string]string, line map[string]int) (unknown []string) {
 	for k, v := range meta {
 		if _, ok := fieldByName(k); ok {
@@ -167,6 +167,49 @@ func (s *spec) fromMeta(file string, meta map[string]string, line map[string]int
 			unknown = append(unknown, k)
 		}
 	}
-	sort.Strings(unknown)
+	sort.Slice(unknown, func(i, j int) bool { return line[unknown[i]] < line[unknown[j]] })
 	return unknown
+}
+
+// nearField is the field name a `# key: value` key was probably meant to
+// be: the same letters without the hyphens, or one letter added, dropped
+// or changed (two for keys longer than six letters); "" when none is that
+// close, as for the other things a log's header tells (instrument, lab).
+func nearField(key string) string {
+	bare := strings.ReplaceAll(key, "-", "")
+	limit := 1
+	if len(key) > 6 {
+		limit = 2
+	}
+	best, bestD := "", limit+1
+	for _, f := range fields {
+		if strings.ReplaceAll(f.name, "-", "") == bare {
+			return f.name
+		}
+		if d := editDistance(key, f.name); d < bestD && len(key) > 3 {
+			best, bestD = f.name, d
+		}
+	}
+	return best
+}
+
+// editDistance is the Levenshtein distance between a and b, in bytes.
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			sub := prev[j-1]
+			if a[i-1] != b[j-1] {
+				sub++
+			}
+			cur[j] = min(sub, prev[j]+1, cur[j-1]+1)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
 }

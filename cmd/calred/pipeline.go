@@ -82,7 +82,11 @@ func loadRun(a *app, path string, over *spec) (*runInput, error) {
 		return nil, err
 	}
 	ri := &runInput{path: path, name: filepath.Base(path), log: log, sha256: sum, spec: newSpec()}
-	ri.spec.fromMeta(ri.name, log.Meta, log.MetaLine)
+	for _, k := range ri.spec.fromMeta(ri.name, log.Meta, log.MetaLine) {
+		if f := nearField(k); f != "" {
+			a.warnf("%s:%d: %q is not a field name and is ignored; did you mean %s?", ri.name, log.MetaLine[k], k, f)
+		}
+	}
 	for k, v := range over.values {
 		ri.spec.set(k, v, over.origin[k])
 	}
@@ -339,7 +343,7 @@ func loadCalibration(path string) (*calorimeter.Calibration, error) {
 	}
 	cal, err := calorimeter.ReadCalibration(strings.NewReader(string(b)))
 	if err != nil {
-		return nil, dataf("%s: %w", filepath.Base(path), err)
+		return nil, withHint(dataf("%s: %w", filepath.Base(path), err), "--cal takes the file `calred calibrate LOG … -o cal.json` writes")
 	}
 	cal.SHA256 = sha256Hex(b)
 	return cal, nil
