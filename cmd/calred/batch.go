@@ -62,6 +62,9 @@ func runBatch(a *app, args []string) error {
 	}
 	dir := filepath.Dir(mpath)
 	mname := filepath.Base(mpath)
+	for _, r := range rows {
+		warnUnusedCells(a, mname, r)
+	}
 	inputs := []string{mpath}
 	for _, r := range rows {
 		inputs = append(inputs, filepath.Join(dir, r.log))
@@ -359,6 +362,25 @@ func readManifest(path string) ([]manifestRow, error) {
 		return nil, dataf("%s: no runs listed", name)
 	}
 	return rows, nil
+}
+
+// warnUnusedCells warns about the cells of a row that its kind does not
+// read (a heater power on a sample row, an accepted value on a
+// calibration): most often the kind is wrong.
+func warnUnusedCells(a *app, mname string, r manifestRow) {
+	use := byte('r')
+	if r.kind == "calibration" {
+		use = 'c'
+	}
+	var unused []string
+	for _, f := range fields {
+		if r.spec.has(f.name) && strings.IndexByte(f.use, use) < 0 {
+			unused = append(unused, strings.ReplaceAll(f.name, "-", "_"))
+		}
+	}
+	if len(unused) > 0 {
+		a.warnf("%s:%d: a %s row does not use %s; is its kind right?", mname, r.line, r.kind, strings.Join(unused, ", "))
+	}
 }
 
 // manifestDelimiter is the delimiter of the header line (the first line

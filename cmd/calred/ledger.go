@@ -106,6 +106,7 @@ func runLedgerShow(a *app, args []string) error {
 	if err != nil {
 		return err
 	}
+	*kind, *status = strings.ToLower(strings.TrimSpace(*kind)), strings.ToLower(strings.TrimSpace(*status))
 	flt := ledger.Filter{Kind: *kind, SampleID: *sampleID, Status: *status}
 	if *since != "" {
 		t, err := parseSince(*since)

@@ -73,6 +73,9 @@ func (a *app) checkOutFlags(fs *flag.FlagSet, out *outFlags, inputs ...string) e
 		if err := checkOutPath("--ledger", *out.ledger); err != nil {
 			return err
 		}
+		if err := checkNotInput("--ledger", *out.ledger, inputs...); err != nil {
+			return err
+		}
 	}
 	return nil
 }
