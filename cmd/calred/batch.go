@@ -165,6 +165,14 @@ func runBatch(a *app, args []string) error {
 		progress.Wait()
 	}
 	gradeBatch(results, sigma, sigmaRel)
+	badAccepted := 0
+	for _, r := range results {
+		if r.gradeErr != nil {
+			badAccepted++
+			where := fmt.Sprintf("%s:%d", mname, r.row.line)
+			a.warnf("%s: %s: %s; not graded", where, r.runID, strings.TrimPrefix(oneLine(r.gradeErr.Error()), where+": "))
+		}
+	}
 
 	// The files are staged, the ledger rows appended, and only then the
 	// files renamed into place: a refused ledger leaves no new file.
@@ -205,6 +213,9 @@ func runBatch(a *app, args []string) error {
 	}
 	if broken > 0 {
 		return dataf("%s: %d of %d runs could not be reduced (the others are written)", mname, broken, len(results))
+	}
+	if badAccepted > 0 {
+		return dataf("%s: %d accepted value(s) could not be read; those runs are reduced but not graded", mname, badAccepted)
 	}
 	if failed > 0 {
 		return errCheckFailed
@@ -455,13 +466,14 @@ func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.Calibra
 }
 
 type batchResult struct {
-	row     manifestRow
-	runID   string
-	sample  *sampleResult
-	cal     *calibrationResult       // the (first) calibration run of the row
-	calComb *calorimeter.Calibration // the row's runs combined, when its log has several heating periods
-	err     error
-	grade   *calorimeter.Grade
+	row      manifestRow
+	runID    string
+	sample   *sampleResult
+	cal      *calibrationResult       // the (first) calibration run of the row
+	calComb  *calorimeter.Calibration // the row's runs combined, when its log has several heating periods
+	err      error
+	grade    *calorimeter.Grade
+	gradeErr error // the accepted value could not be read
 }
 
 // heatCapacity is a calibration row's result.
@@ -491,10 +503,12 @@ func gradeBatch(results []*batchResult, sigma, sigmaRel float64) {
 		if r.row.accepted == "" {
 			continue
 		}
-		q, err := units.Parse(r.row.accepted, units.MolarEnthalpy, "kJ/mol")
+		q, _, err := r.row.spec.quantity("accepted")
 		if err != nil {
-			g := calorimeter.Grade{Verdict: "not graded", Feedback: []string{fmt.Sprintf("accepted value: %v", err)}}
+			g := calorimeter.Grade{Accepted: math.NaN(), UAccepted: math.NaN(), ErrorPercent: math.NaN(), Z: math.NaN(), Zeta: math.NaN(), En: math.NaN(),
+				Verdict: "not graded", Feedback: []string{fmt.Sprintf("accepted value not read: %s", strings.TrimPrefix(err.Error(), r.row.spec.origin["accepted"]+": accepted: "))}}
 			r.grade = &g
+			r.gradeErr = err
 			continue
 		}
 		acc, uacc := q.Value/1000, q.U/1000
