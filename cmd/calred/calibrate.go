@@ -436,7 +436,9 @@ func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*cal
 			fmt.Fprintf(w, "  heating period %d of %d: heater on %.1f s to %.1f s; readings %.1f s to %.1f s analysed\n",
 				r.of, r.total, r.pulse.On, r.pulse.Off, r.window.Start, r.window.End)
 		}
-		fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", run.Points, r.in.sha256)
+		fmt.Fprintf(w, "  %d readings, sha256 %s\n", run.Points, r.in.sha256)
+		writeTimeZeroText(w, r.in)
+		fmt.Fprintln(w)
 		writeRiseText(w, run.Rise)
 		writeExcludedText(w, run.Rise, r.t, r.lines)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)

@@ -47,6 +47,22 @@ func TestScripts(t *testing.T) {
 				}
 				ts.Check(err)
 			},
+			// shift-time SRC DST: copy a log of "time,temperature" lines with 60 s
+			// added to every time, as a timer started a minute early writes it.
+			"shift-time": func(ts *testscript.TestScript, neg bool, args []string) {
+				if neg || len(args) != 2 {
+					ts.Fatalf("usage: shift-time SRC DST")
+				}
+				var out strings.Builder
+				for _, line := range strings.SplitAfter(ts.ReadFile(args[0]), "\n") {
+					tv, rest, ok := strings.Cut(line, ",")
+					if v, err := strconv.ParseFloat(tv, 64); ok && err == nil {
+						line = strconv.FormatFloat(v+60, 'f', 1, 64) + "," + rest
+					}
+					out.WriteString(line)
+				}
+				ts.Check(os.WriteFile(ts.MkAbs(args[1]), []byte(out.String()), 0o644))
+			},
 			// replace-in-line FILE LINE OLD NEW: change the first OLD on one line of FILE.
 			"replace-in-line": func(ts *testscript.TestScript, neg bool, args []string) {
 				if neg || len(args) != 4 {

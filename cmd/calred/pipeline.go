@@ -201,8 +201,8 @@ func checkTimes(ri *runInput, opt calorimeter.RiseOptions) error {
 	end := t[len(t)-1]
 	s := ri.spec
 	zero := ""
-	if ri.log.TimeZero != 0 {
-		zero = fmt.Sprintf("; times count from the first reading, which the file writes as %g s", ri.log.TimeZero)
+	if n := strings.TrimSpace(timeZeroNote(ri.log)); n != "" {
+		zero = "; " + n
 	}
 	if !math.IsNaN(opt.MixTime) && !(opt.MixTime < end) {
 		return s.failf("mix-time", "%g s is not inside the log, whose readings run from 0 to %g s%s", opt.MixTime, end, zero)

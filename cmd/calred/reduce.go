@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 
 	"calred/calorimeter"
+	"calred/calorimeter/logfile"
 	"calred/units"
 )
 
@@ -271,6 +272,28 @@ func excludedReadings(rise *calorimeter.Rise, t []float64, lines []int) []exclud
 	return out
 }
 
+// writeTimeZeroText says where the times of the report start when the
+// log's own time axis does not start at 0.
+func writeTimeZeroText(w io.Writer, in *runInput) {
+	fmt.Fprint(w, timeZeroNote(in.log))
+}
+
+// timeZeroNote is "" when the log's own times start at 0, else a line
+// (with its line end) saying what the first reading's time is in the log.
+func timeZeroNote(log *logfile.Log) string {
+	z := log.TimeZero
+	switch {
+	case !log.Start.IsZero():
+		return fmt.Sprintf("  times count from the first reading, at %s\n", log.Start.Format("2006-01-02 15:04:05 MST"))
+	case log.Dialect.TimeBase == "clock":
+		h, m, sec := int(z/3600), int(math.Mod(z, 3600)/60), math.Mod(z, 60)
+		return fmt.Sprintf("  times count from the first reading, at %02d:%02d:%02g on the log's clock\n", h, m, sec)
+	case z != 0:
+		return fmt.Sprintf("  times count from the first reading, which the log writes as %g s\n", z)
+	}
+	return ""
+}
+
 // writeExcludedText names the readings left out as spikes by log line.
 func writeExcludedText(w io.Writer, rise *calorimeter.Rise, t []float64, lines []int) {
 	ex := excludedReadings(rise, t, lines)
@@ -313,7 +336,9 @@ func finiteOrNil(v float64) any {
 func (r *sampleResult) writeText(w io.Writer) error {
 	red, rise := r.red, r.red.Rise
 	fmt.Fprintf(w, "Sample run %s — %s\n", r.in.runID, r.in.name)
-	fmt.Fprintf(w, "  %d readings, sha256 %s\n\n", rise.Points, r.in.sha256)
+	fmt.Fprintf(w, "  %d readings, sha256 %s\n", rise.Points, r.in.sha256)
+	writeTimeZeroText(w, r.in)
+	fmt.Fprintln(w)
 	writeRiseText(w, rise)
 	writeExcludedText(w, rise, r.in.log.Time, r.in.log.Line)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
