@@ -56,9 +56,9 @@ var fields = []field{
 	// Log reading.
 	{name: "time-column", text: true, use: "rc", help: "name or 1-based number of the time column (default: detected)"},
 	{name: "temperature-column", text: true, use: "rc", help: "name or 1-based number of the temperature column (default: detected)"},
-	{name: "time-unit", text: true, use: "rc", help: "time base: s, min, h, ms, mm:ss, hh:mm:ss, iso8601 (default: detected)"},
+	{name: "time-unit", text: true, use: "rc", help: "time base: s, min, h, ms, mm:ss, hh:mm:ss, hh:mm, iso8601 (default: detected)"},
 	{name: "temperature-unit", text: true, use: "rc", help: "temperature unit: C, K, F (default: from the header)"},
-	{name: "delimiter", text: true, use: "rc", help: "field delimiter: comma, semicolon, tab, space (default: detected)"},
+	{name: "delimiter", text: true, use: "rc", help: "field delimiter: comma, semicolon, tab, pipe, space (default: detected)"},
 	{name: "decimal", text: true, use: "rc", help: "decimal mark: point or comma (default: detected)"},
 	// Records.
 	{name: "run-id", text: true, use: "rc", help: "run identifier (default: the log's file name without extension)"},

@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"io"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	flag "github.com/spf13/pflag"
@@ -55,6 +56,14 @@ func logOptions(s *spec) (logfile.Options, error) {
 		TimeUnit:          s.text("time-unit"),
 		TemperatureUnit:   s.text("temperature-unit"),
 	}
+	if err := (logfile.Options{TimeUnit: opt.TimeUnit}).Validate(); err != nil {
+		return opt, s.fail("time-unit", err)
+	}
+	for _, name := range []string{"time-column", "temperature-column"} {
+		if n, err := strconv.Atoi(s.text(name)); err == nil && n < 1 {
+			return opt, s.failf(name, "column %d: columns are numbered from 1", n)
+		}
+	}
 	switch u := strings.TrimPrefix(strings.ToUpper(opt.TemperatureUnit), "°"); u {
 	case "", "C", "K", "F":
 		opt.TemperatureUnit = u
@@ -77,8 +86,10 @@ func logOptions(s *spec) (logfile.Options, error) {
 		opt.Delimiter = '\t'
 	case "space", "spaces", " ":
 		opt.Delimiter = ' '
+	case "pipe", "|":
+		opt.Delimiter = '|'
 	default:
-		return opt, s.failf("delimiter", "unknown delimiter %q (use comma, semicolon, tab or space)", d)
+		return opt, s.failf("delimiter", "unknown delimiter %q (use comma, semicolon, tab, pipe or space)", d)
 	}
 	switch d := strings.ToLower(s.text("decimal")); d {
 	case "":
