@@ -56,6 +56,10 @@ func runCalibrate(a *app, args []string) error {
 			return err
 		}
 	}
+	if fs.NArg() > 1 && flags.has("run-id") {
+		return withHint(usagef("--run-id names one run, but %d logs are given", fs.NArg()),
+			"each log takes its run id from its file name or a `# run-id:` line")
+	}
 	var runs []*calibrationResult
 	seen := map[string]string{} // sha256 → file
 	for _, path := range fs.Args() {
@@ -72,8 +76,14 @@ func runCalibrate(a *app, args []string) error {
 		runs = append(runs, crs...)
 	}
 	crs := make([]*calorimeter.CalibrationRun, len(runs))
+	ids := map[string]string{} // run id → log path
 	for i, r := range runs {
 		crs[i] = r.run
+		if first, dup := ids[r.run.RunID]; dup && first != r.in.path {
+			return withHint(usagef("run id %q is both %s and %s", r.run.RunID, first, r.in.path),
+				"give one of them a `# run-id:` line, or a file name of its own")
+		}
+		ids[r.run.RunID] = r.in.path
 	}
 	cal, err := calorimeter.Combine(crs, time.Now(), version)
 	if err != nil {
