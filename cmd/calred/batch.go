@@ -108,6 +108,16 @@ func runBatch(a *app, args []string) error {
 	calRuns := map[string][]*calorimeter.CalibrationRun{}
 	results := make([]*batchResult, len(rows))
 	var ledgerRows []ledger.Row
+	idLine := map[string]int{} // run id of a reduced row → its manifest line
+	// taken reports a run id already used by another row (a log's own
+	// `# run-id:` line can repeat one the manifest does not show).
+	taken := func(id string, line int) error {
+		if first, dup := idLine[id]; dup {
+			return withHint(dataf("run id %q is already used by the row on line %d", id, first), "give the row a run_id cell of its own")
+		}
+		idLine[id] = line
+		return nil
+	}
 	for _, i := range order {
 		mr := rows[i]
 		res := &batchResult{row: mr, runID: mr.spec.text("run-id")}
@@ -116,6 +126,7 @@ func runBatch(a *app, args []string) error {
 		if res.runID == "" {
 			res.runID = strings.TrimSuffix(filepath.Base(mr.log), filepath.Ext(mr.log))
 		}
+		var rowLedger []ledger.Row
 		switch mr.kind {
 		case "calibration":
 			crs, err := calibrateLog(a, logPath, mr.spec, lf)
@@ -123,22 +134,30 @@ func runBatch(a *app, args []string) error {
 				res.err = err
 				break
 			}
-			res.cal, res.runID = crs[0], crs[0].in.runID
+			res.runID = crs[0].in.runID
+			if res.err = taken(res.runID, mr.line); res.err != nil {
+				break
+			}
+			var runs []*calorimeter.CalibrationRun
 			for _, cr := range crs {
-				calRuns[res.runID] = append(calRuns[res.runID], cr.run)
-				if cr.run.RunID != res.runID {
-					calRuns[cr.run.RunID] = []*calorimeter.CalibrationRun{cr.run}
-				}
-				ledgerRows = append(ledgerRows, cr.record())
+				runs = append(runs, cr.run)
+				rowLedger = append(rowLedger, cr.record())
 			}
 			if len(crs) > 1 {
 				// A log with several heating periods: the row stands for their combination.
-				comb, err := calorimeter.Combine(calRuns[res.runID], time.Now(), version)
+				comb, err := calorimeter.Combine(runs, time.Now(), version)
 				if err != nil {
 					res.err = dataErr(err)
 					break
 				}
 				res.calComb = comb
+			}
+			res.cal = crs[0]
+			calRuns[res.runID] = runs
+			for _, cr := range crs {
+				if cr.run.RunID != res.runID {
+					calRuns[cr.run.RunID] = []*calorimeter.CalibrationRun{cr.run}
+				}
 			}
 		default:
 			cals, err := batchCalibrations(mr, calRuns)
@@ -151,8 +170,15 @@ func runBatch(a *app, args []string) error {
 				res.err = err
 				break
 			}
-			res.sample, res.runID = sr, sr.in.runID
-			ledgerRows = append(ledgerRows, sr.record())
+			res.runID = sr.in.runID
+			if res.err = taken(res.runID, mr.line); res.err != nil {
+				break
+			}
+			res.sample = sr
+			rowLedger = append(rowLedger, sr.record())
+		}
+		if res.err == nil {
+			ledgerRows = append(ledgerRows, rowLedger...)
 		}
 		if res.err != nil {
 			where := fmt.Sprintf("%s:%d", mname, mr.line)
