@@ -112,7 +112,7 @@ func runCalibrate(a *app, args []string) error {
 			name := *out.plot
 			if len(runs) > 1 {
 				ext := filepath.Ext(name)
-				name = strings.TrimSuffix(name, ext) + "-" + r.run.RunID + ext
+				name = strings.TrimSuffix(name, ext) + "-" + fileNamePart(r.run.RunID) + ext
 			}
 			th := thermogram(fmt.Sprintf("%s — ε = %.1f ± %.1f J/K", r.run.RunID, r.run.HeatCapacity, r.run.UHeatCapacity),
 				r.t, r.theta, r.run.Rise)
@@ -491,4 +491,18 @@ func writeCalibrationText(w io.Writer, cal *calorimeter.Calibration, runs []*cal
 	}
 	writeChecksText(w, cal.Checks, cal.Status)
 	return nil
+}
+
+// fileNamePart makes a run id safe inside a file name: a path separator or
+// a character that shells and file systems treat specially becomes '_'.
+func fileNamePart(id string) string {
+	return strings.Map(func(r rune) rune {
+		switch {
+		case r == '/' || r == '\\' || r == ':' || r == '*' || r == '?' || r == '"' || r == '<' || r == '>' || r == '|':
+			return '_'
+		case r < ' ':
+			return '_'
+		}
+		return r
+	}, id)
 }
