@@ -108,7 +108,8 @@ func runBatch(a *app, args []string) error {
 	calRuns := map[string][]*calorimeter.CalibrationRun{}
 	results := make([]*batchResult, len(rows))
 	var ledgerRows []ledger.Row
-	idLine := map[string]int{} // run id of a reduced row → its manifest line
+	idLine := map[string]int{}    // run id of a reduced row → its manifest line
+	failedCal := map[string]int{} // run id of a calibration row not reduced → its manifest line
 	// taken reports a run id already used by another row (a log's own
 	// `# run-id:` line can repeat one the manifest does not show).
 	taken := func(id string, line int) error {
@@ -160,7 +161,7 @@ func runBatch(a *app, args []string) error {
 				}
 			}
 		default:
-			cals, err := batchCalibrations(mr, calRuns)
+			cals, err := batchCalibrations(mr, calRuns, failedCal)
 			if err != nil {
 				res.err = err
 				break
@@ -179,6 +180,10 @@ func runBatch(a *app, args []string) error {
 		}
 		if res.err == nil {
 			ledgerRows = append(ledgerRows, rowLedger...)
+		} else if mr.kind == "calibration" {
+			if _, ok := calRuns[res.runID]; !ok {
+				failedCal[res.runID] = mr.line
+			}
 		}
 		if res.err != nil {
 			where := fmt.Sprintf("%s:%d", mname, mr.line)
@@ -236,6 +241,9 @@ func runBatch(a *app, args []string) error {
 		case r.status() == calorimeter.Fail:
 			failed++
 		}
+	}
+	if broken == len(results) {
+		return dataf("%s: none of the %d runs could be reduced", mname, broken)
 	}
 	if broken > 0 {
 		return dataf("%s: %d of %d runs could not be reduced (the others are written)", mname, broken, len(results))
@@ -453,7 +461,10 @@ func manifestDelimiter(b []byte) rune {
 // batchCalibrations resolves a sample's cal cell: run ids of calibration
 // rows (joined with '+') become one combined calibration, held under the
 // cell's text; anything else is left for heatCapacityOf to read as a file.
-func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.CalibrationRun) (map[string]*calorimeter.Calibration, error) {
+//
+// failed holds the run ids of calibration rows that could not be reduced,
+// with their manifest lines.
+func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.CalibrationRun, failed map[string]int) (map[string]*calorimeter.Calibration, error) {
 	if mr.cal == "" {
 		return nil, nil
 	}
@@ -464,6 +475,9 @@ func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.Calibra
 	seen := map[string]string{}
 	for _, id := range ids {
 		id = strings.TrimSpace(id)
+		if line, bad := failed[id]; bad {
+			return nil, dataf("calibration %q could not be reduced (manifest line %d)", id, line)
+		}
 		if r, ok := calRuns[id]; ok {
 			for _, run := range r {
 				key := fmt.Sprintf("%s@%.6g", run.SHA256, run.MixTime)
@@ -474,14 +488,14 @@ func batchCalibrations(mr manifestRow, calRuns map[string][]*calorimeter.Calibra
 			}
 			runs = append(runs, r...)
 		} else if len(ids) > 1 {
-			return nil, dataf("calibration run %q not found among the calibration rows (or it could not be reduced)", id)
+			return nil, dataf("calibration %q is not the run_id of a calibration row", id)
 		}
 	}
 	if len(runs) == 0 {
 		if strings.HasSuffix(strings.ToLower(mr.cal), ".json") {
 			return nil, nil // a calibration file
 		}
-		return nil, dataf("calibration %q is neither a calibration row's run_id nor a .json calibration file (or its run could not be reduced)", mr.cal)
+		return nil, dataf("calibration %q is neither a calibration row's run_id nor a .json calibration file", mr.cal)
 	}
 	cal, err := calorimeter.Combine(runs, time.Now(), version)
 	if err != nil {
