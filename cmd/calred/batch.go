@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -188,7 +189,7 @@ func runBatch(a *app, args []string) error {
 		if res.err != nil {
 			where := fmt.Sprintf("%s:%d", mname, mr.line)
 			msg, _ := splitHint(oneLine(res.err.Error()))
-			a.warnf("%s: %s: %s", where, res.runID, strings.TrimPrefix(msg, where+": "))
+			a.warnf("%s: %s: %s", where, res.runID, manifestTerms(strings.TrimPrefix(msg, where+": ")))
 		}
 		done()
 	}
@@ -428,6 +429,20 @@ func warnUnusedCells(a *app, mname string, r manifestRow) {
 	}
 }
 
+// flagName matches a flag name in a message.
+var flagName = regexp.MustCompile(`--([a-z][a-z-]*[a-z])`)
+
+// manifestTerms writes the flags a message names as the manifest columns
+// they are in a batch: "give --cold-mass" becomes "give cold_mass".
+func manifestTerms(msg string) string {
+	return flagName.ReplaceAllStringFunc(msg, func(m string) string {
+		if _, ok := fieldByName(m[2:]); ok {
+			return strings.ReplaceAll(m[2:], "-", "_")
+		}
+		return m
+	})
+}
+
 // manifestDelimiter is the delimiter of the header line (the first line
 // that is neither blank nor a comment): the most frequent of comma,
 // semicolon and tab outside quotes, comma when there is none.
@@ -606,7 +621,8 @@ func writeResultsCSV(w io.Writer, results []*batchResult) error {
 		}
 		var fb []string
 		if r.err != nil {
-			fb = append(fb, "not reduced: "+oneLine(r.err.Error()))
+			msg, _ := splitHint(oneLine(r.err.Error()))
+			fb = append(fb, "not reduced: "+manifestTerms(msg))
 		}
 		if g := r.grade; g != nil {
 			rec[15], rec[16], rec[17], rec[18], rec[19], rec[20] = num(g.Accepted), num(g.ErrorPercent), num(g.Z), num(g.Zeta), num(g.En), g.Verdict
@@ -687,7 +703,8 @@ func writeReport(w io.Writer, title, manifest string, results []*batchResult) er
 		var th *plot.Thermogram
 		switch {
 		case r.err != nil:
-			e.Error = oneLine(r.err.Error())
+			msg, _ := splitHint(oneLine(r.err.Error()))
+			e.Error = manifestTerms(msg)
 		case r.sample != nil:
 			red := r.sample.red
 			e.Result = "ΔsolH = " + units.Format(red.MolarEnthalpy, red.Expanded, "kJ/mol")
