@@ -243,6 +243,9 @@ func runBatch(a *app, args []string) error {
 			failed++
 		}
 	}
+	if broken == 1 && len(results) == 1 {
+		return dataf("%s: its one run could not be reduced", mname)
+	}
 	if broken == len(results) {
 		return dataf("%s: none of the %d runs could be reduced", mname, broken)
 	}
@@ -385,6 +388,7 @@ func readManifest(path string) ([]manifestRow, error) {
 				mr.spec.set("accepted", v, origin)
 			default:
 				mr.spec.set(cols[i], v, origin)
+				mr.spec.label[cols[i]] = strings.ReplaceAll(cols[i], "-", "_")
 			}
 		}
 		if mr.log == "" {

@@ -83,15 +83,25 @@ func fieldByName(name string) (field, bool) {
 type spec struct {
 	values map[string]string
 	origin map[string]string // "flag --sample-mass", "run7.csv:3", "manifest.csv:4"
+	label  map[string]string // the name as its source writes it ("sample_mass" in a manifest), when not the field name
 }
 
 func newSpec() *spec {
-	return &spec{values: map[string]string{}, origin: map[string]string{}}
+	return &spec{values: map[string]string{}, origin: map[string]string{}, label: map[string]string{}}
 }
 
 func (s *spec) set(name, value, origin string) {
 	s.values[name] = value
 	s.origin[name] = origin
+	delete(s.label, name)
+}
+
+// setFrom copies field name, with its origin and label, from o.
+func (s *spec) setFrom(o *spec, name string) {
+	s.set(name, o.values[name], o.origin[name])
+	if l, ok := o.label[name]; ok {
+		s.label[name] = l
+	}
 }
 
 func (s *spec) has(name string) bool {
@@ -131,7 +141,11 @@ func (s *spec) fail(name string, err error) error {
 	if strings.HasPrefix(o, "flag ") {
 		return usagef("%s: %w", o, err)
 	}
-	return dataf("%s: %s: %w", o, name, err)
+	label := name
+	if l, ok := s.label[name]; ok {
+		label = l
+	}
+	return dataf("%s: %s: %w", o, label, err)
 }
 
 // failf is fail with a formatted message.

@@ -87,8 +87,8 @@ func loadRun(a *app, path string, over *spec) (*runInput, error) {
 			a.warnf("%s:%d: %q is not a field name and is ignored; did you mean %s?", ri.name, log.MetaLine[k], k, f)
 		}
 	}
-	for k, v := range over.values {
-		ri.spec.set(k, v, over.origin[k])
+	for k := range over.values {
+		ri.spec.setFrom(over, k)
 	}
 	for _, w := range log.Warnings {
 		a.warnf("%s", w)
