@@ -349,6 +349,10 @@ func readManifest(path string) ([]manifestRow, error) {
 		where[key] = i
 		cols[i] = key
 	}
+	if _, ok := where["log"]; !ok {
+		return nil, withHint(dataf("%s:%d: no log column: each row names its log file there", name, hline),
+			"the header names the columns, e.g. log,kind,formula,sample_mass,cal")
+	}
 	var rows []manifestRow
 	ids := map[string]int{} // run_id → manifest line
 	for {
