@@ -236,11 +236,28 @@ func analyse(ri *runInput, lf limitFlags) (*calorimeter.Rise, error) {
 	if err := checkTimes(ri, opt); err != nil {
 		return nil, err
 	}
+	if err := checkIncreasing(ri); err != nil {
+		return nil, err
+	}
 	rise, err := calorimeter.AnalyseRise(ri.log.Time, ri.log.Temperature, opt)
 	if err != nil {
 		return nil, withHint(dataf("%s: %w", ri.name, err), riseHint(ri.spec, err))
 	}
 	return rise, nil
+}
+
+// checkIncreasing names the first reading whose time does not follow the
+// one before (a repeated time the reader let through with a warning), by
+// its line: the analysis would only give its index.
+func checkIncreasing(ri *runInput) error {
+	t, lines := ri.log.Time, ri.log.Line
+	for i := 1; i < len(t) && i < len(lines); i++ {
+		if !(t[i] > t[i-1]) {
+			return withHint(dataf("%s:%d: time %g s is not after the reading on line %d (%g s): the analysis needs times that increase", ri.name, lines[i], t[i], lines[i-1], t[i-1]),
+				"remove or correct the repeated reading; `calred inspect` lists repeated times")
+		}
+	}
+	return nil
 }
 
 // riseHint is the next step after a failed analysis: the mixing time when
