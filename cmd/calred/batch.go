@@ -230,6 +230,9 @@ func runBatch(a *app, args []string) error {
 		}
 	}
 	if err := outs.commit(); err != nil {
+		if *ledgerFile != "" && len(ledgerRows) > 0 {
+			return fmt.Errorf("%w (the ledger row is recorded)", err)
+		}
 		return err
 	}
 	writeBatchSummary(a.stdout, results, *quiet)

@@ -134,6 +134,9 @@ func runCalibrate(a *app, args []string) error {
 		}
 	}
 	if err := outs.commit(); err != nil {
+		if *out.ledger != "" {
+			return fmt.Errorf("%w (the ledger row is recorded)", err)
+		}
 		return err
 	}
 	if _, err := a.stdout.Write(report.Bytes()); err != nil {

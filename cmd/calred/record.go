@@ -41,6 +41,9 @@ func (a *app) finishRun(row ledger.Row, out *outFlags, th *plot.Thermogram, repo
 		}
 	}
 	if err := outs.commit(); err != nil {
+		if *out.ledger != "" {
+			return fmt.Errorf("%w (the ledger row is recorded)", err)
+		}
 		return err
 	}
 	_, err := a.stdout.Write(buf.Bytes())
