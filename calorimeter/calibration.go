@@ -196,10 +196,22 @@ func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, erro
 		}
 		c.correlate(i, j, p.R)
 	}
+	used := map[string]bool{"k_cp": true}
 	need := func(syms ...string) error {
 		for _, s := range syms {
 			if _, ok := idx[s]; !ok {
 				return fmt.Errorf("%s: model input %q missing", calWho(r.RunID), s)
+			}
+			used[s] = true
+		}
+		return nil
+	}
+	// unused refuses stored inputs the model does not read: a file from
+	// another version, or an edit, must not be half-used in silence.
+	unused := func() error {
+		for _, s := range r.Inputs {
+			if !used[s.Symbol] {
+				return fmt.Errorf("%s: input %q (%s) is not part of the %s model", calWho(r.RunID), s.Symbol, s.Name, r.Method)
 			}
 		}
 		return nil
@@ -254,17 +266,18 @@ func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, erro
 		m.vessel = vessel
 		m.eps = func(x []float64) float64 { return vessel(x) + x[k]*(x[mc]+x[mh])*WaterCp(x[tf]) }
 		m.heat = func(x []float64) float64 { return x[k] * x[mh] * WaterEnthalpyChange(x[tf], x[th]) }
-		return m, nil
+		return m, unused()
 	default:
 		return m, fmt.Errorf("%s: unknown calibration method %q", calWho(r.RunID), r.Method)
 	}
 	heat, dt := m.heat, idx["ΔT_cal"]
 	m.eps = func(x []float64) float64 { return heat(x) / x[dt] }
 	if w, ok := idx["m_w,cal"]; ok {
+		used["m_w,cal"] = true
 		eps, cp := m.eps, WaterCp(r.MeanTemperature)
 		m.vessel = func(x []float64) float64 { return eps(x) - x[kcp]*x[w]*cp }
 	}
-	return m, nil
+	return m, unused()
 }
 
 // calWho names a calibration run in an error.
