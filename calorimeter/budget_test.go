@@ -661,6 +661,7 @@ func ExamplePropagate() {
 	// → 17.202 ± 0.0591, ν_eff = 27.08, k = 2.052, U = 0.121; c = 17.1988,
 	// 0.05734, −25.8486, −13.4287, 0.23075, −6.87264; shares 5.4, 0.24, 62.0,
 	// 32.3, 0.006, 0.054 %.
+
 	// Output:
 	// ΔsolH = 17.202 kJ/mol, u_c = 0.059 kJ/mol
 	// ν_eff = 27.1, k = 2.05, U = 0.12 kJ/mol (95 %)
@@ -693,6 +694,7 @@ func ExampleWriteBudgetTable() {
 	// 1.50293, −677.504; contributions 0.3606, 0.0751, 1.2195 J/K; shares
 	// 8.01, 0.35, 91.64 %; ν_eff = 1.2739⁴/(1.2195⁴/14) = 16.67, k =
 	// t.ppf(0.975, 16) = 2.1199, U = 2.70 J/K.
+
 	// Output:
 	// quantity                    symbol  value    unit  u        dof  sensitivity  contribution (J/K)  share %
 	// heater power                P       1.00020  W     0.00080  ∞    450.8        0.36                8.0

@@ -71,10 +71,10 @@ func TestPfaundlerWorkedExample(t *testing.T) {
 // Identity [C]: extrapolation − Dickinson = −(r2 − r1)(t_x − t_mix).
 func TestMethodsNoiseFree(t *testing.T) {
 	tests := []struct {
-		name   string
-		sim    Simulation
-		pre    Period
-		post   Period
+		name string
+		sim  Simulation
+		pre  Period
+		post Period
 		// relTol for regnault-pfaundler and model: the trapezoid over the
 		// main period is the only approximation; measured errors were at
 		// most 4.4e-6 (endothermic, 5 s sampling) and 3.5e-7 elsewhere, so

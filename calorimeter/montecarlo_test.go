@@ -526,6 +526,7 @@ func ExampleMonteCarlo() {
 	// < δ = 0.05 J/K, validated too. The end points of a 10⁶-trial run
 	// scatter by about 0.004 J/K (√(p(1−p)/M)/pdf), so those printed here
 	// agree with numpy's to within 0.01 J/K.
+
 	// Output:
 	// GUM:         C = 450.88 J/K, u_c = 1.27 J/K, interval [448.38, 453.38] J/K
 	// Monte Carlo: C = 450.88 J/K, u   = 1.27 J/K, interval [448.40, 453.40] J/K

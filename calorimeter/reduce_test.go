@@ -526,6 +526,7 @@ func ExampleReduceSample() {
 	//   nu=H.s**4/((46.1254*0.0003)**4/60); print(nu, st.t.ppf(0.975,int(nu)))'
 	// → q = −195.584 J, n = 0.0111002 mol, 17.620 ± 0.025 kJ/mol,
 	// ν_eff = 592 (only ΔT_s has finite ν), k = 1.964.
+
 	// Output:
 	// q = -195.6 J, n = 0.01110 mol, m = 0.1110 mol/kg
 	// ΔsolH = 17.620 ± 0.025 kJ/mol (k = 1.96)

@@ -23,6 +23,7 @@ func ExampleLine() {
 	// 21.513,21.521,21.526,21.532]); r=st.linregress(t,y);
 	// print(r.intercept, r.slope, r.stderr)' → 21.502238 0.00059714
 	// 2.0068e-05; at 60 s 21.538067 with u = s·√(1/6 + 35²/1750) = 0.00078.
+
 	// Output:
 	// intercept 21.5022 K, slope 5.971e-04 K/s ± 2.0e-05
 	// at t = 60 s: 21.5381 ± 0.0008
