@@ -181,6 +181,9 @@ func TestThermogramLabel(t *testing.T) {
 	}
 }
 
+// TestPlusMinus: the strings are worked by hand from the JCGM 100:2008,
+// 7.2.6 rule (analytic, as in units.TestRound); without u, four decimals
+// as plusMinus's doc says.
 func TestPlusMinus(t *testing.T) {
 	tests := []struct {
 		name string
