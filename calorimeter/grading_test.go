@@ -53,10 +53,14 @@ func TestDiagnose(t *testing.T) {
 	}{
 		{"sign reversed", -34.5, 34.89, mKNO3, "wrong sign"},
 		{"J for kJ", 34500, 34.89, mKNO3, "factor of 1000"},
+		{"kJ for J", 0.0345, 34.89, mKNO3, "factor of 1000"},
 		{"per gram", 34.89 / mKNO3, 34.89, mKNO3, "molar mass"},
 		// NH4NO3 dissolved but reduced as NH4Cl: x = 25.69·M(NH4Cl)/M(NH4NO3) = 25.69·53.489/80.043 = 17.17 kJ/mol (DOMAIN §5, §6).
 		{"wrong salt", 25.69 * 53.489 / 80.043, 14.78, 53.489, "molar mass of NH4NO3"},
-		{"low", 31.0, 34.89, mKNO3, "% low"},
+		// 31.0/34.89 = 0.889: 11 % low, the cup's own heat capacity named
+		{"low", 31.0, 34.89, mKNO3, "11 % low: heat lost to the cup and lid (the calorimeter's own heat capacity)"},
+		// 36.5/34.89 = 1.046: 5 % high
+		{"high", 36.5, 34.89, mKNO3, "5 % high"},
 		{"fine", 34.7, 34.89, mKNO3, ""},
 	}
 	for _, tc := range tests {
