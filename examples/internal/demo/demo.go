@@ -37,13 +37,11 @@ const cupHeatCapacity = 24.0 // J/K
 type student struct {
 	runID, name, formula, label string
 	mass, water                 float64 // g
-	trueH                       float64 // J/mol, what the run "really" released
 	start                       float64 // s of logging before the salt goes in
 	g                           float64 // 1/s
 	lambda                      float64 // 1/s dissolution rate
 	spike                       bool
 	seed                        uint64
-	accepted                    string
 	note                        string
 }
 
