@@ -651,6 +651,17 @@ func ExamplePropagate() {
 	for _, t := range b.Terms {
 		fmt.Printf("%-30s c = %9.4f kJ/mol per %-5s %5.1f %%\n", t.Quantity, t.Sensitivity, t.Unit, t.Percent)
 	}
+	// Recomputed with python3-uncertainties 3.1.6 and scipy 1.10.1:
+	//   /usr/bin/python3 -c 'from uncertainties import ufloat; import scipy.stats as st
+	//   P=ufloat(1.0002,0.0008); th=ufloat(300,0.05); dc=ufloat(0.6655,0.0018)
+	//   ds=ufloat(-1.2810,0.0025); M=ufloat(74.548,0.002); m=ufloat(2.5030,0.0002)
+	//   H=-(P*th/dc)*ds*M/m/1000; d=H.derivatives
+	//   nu=H.s**4/((d[dc]*dc.s)**4/14+(d[ds]*ds.s)**4/11)
+	//   print(H, nu, st.t.ppf(0.975,int(nu)), [d[v] for v in (P,th,dc,ds,M,m)])'
+	// → 17.202 ± 0.0591, ν_eff = 27.08, k = 2.052, U = 0.121; c = 17.1988,
+	// 0.05734, −25.8486, −13.4287, 0.23075, −6.87264; shares 5.4, 0.24, 62.0,
+	// 32.3, 0.006, 0.054 %.
+
 	// Output:
 	// ΔsolH = 17.202 kJ/mol, u_c = 0.059 kJ/mol
 	// ν_eff = 27.1, k = 2.05, U = 0.12 kJ/mol (95 %)
@@ -678,6 +689,12 @@ func ExampleWriteBudgetTable() {
 	if err := WriteBudgetTable(os.Stdout, b, "J/K"); err != nil {
 		fmt.Println(err)
 	}
+	// Recomputed with python3-uncertainties 3.1.6 and scipy 1.10.1 (as in
+	// ExamplePropagate, C = P*th/dc): C = 450.879 ± 1.2739 J/K; c = 450.789,
+	// 1.50293, −677.504; contributions 0.3606, 0.0751, 1.2195 J/K; shares
+	// 8.01, 0.35, 91.64 %; ν_eff = 1.2739⁴/(1.2195⁴/14) = 16.67, k =
+	// t.ppf(0.975, 16) = 2.1199, U = 2.70 J/K.
+
 	// Output:
 	// quantity                    symbol  value    unit  u        dof  sensitivity  contribution (J/K)  share %
 	// heater power                P       1.00020  W     0.00080  ∞    450.8        0.36                8.0

@@ -196,10 +196,22 @@ func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, erro
 		}
 		c.correlate(i, j, p.R)
 	}
+	used := map[string]bool{"k_cp": true}
 	need := func(syms ...string) error {
 		for _, s := range syms {
 			if _, ok := idx[s]; !ok {
 				return fmt.Errorf("%s: model input %q missing", calWho(r.RunID), s)
+			}
+			used[s] = true
+		}
+		return nil
+	}
+	// unused refuses stored inputs the model does not read: a file from
+	// another version, or an edit, must not be half-used in silence.
+	unused := func() error {
+		for _, s := range r.Inputs {
+			if !used[s.Symbol] {
+				return fmt.Errorf("%s: input %q (%s) is not part of the %s model", calWho(r.RunID), s.Symbol, s.Name, r.Method)
 			}
 		}
 		return nil
@@ -254,17 +266,18 @@ func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, erro
 		m.vessel = vessel
 		m.eps = func(x []float64) float64 { return vessel(x) + x[k]*(x[mc]+x[mh])*WaterCp(x[tf]) }
 		m.heat = func(x []float64) float64 { return x[k] * x[mh] * WaterEnthalpyChange(x[tf], x[th]) }
-		return m, nil
+		return m, unused()
 	default:
 		return m, fmt.Errorf("%s: unknown calibration method %q", calWho(r.RunID), r.Method)
 	}
 	heat, dt := m.heat, idx["ΔT_cal"]
 	m.eps = func(x []float64) float64 { return heat(x) / x[dt] }
 	if w, ok := idx["m_w,cal"]; ok {
+		used["m_w,cal"] = true
 		eps, cp := m.eps, WaterCp(r.MeanTemperature)
 		m.vessel = func(x []float64) float64 { return eps(x) - x[kcp]*x[w]*cp }
 	}
-	return m, nil
+	return m, unused()
 }
 
 // calWho names a calibration run in an error.
@@ -668,6 +681,7 @@ func (cal *Calibration) model(c *chain) (calModel, error) {
 		return calModel{}, errors.New("calibration has no runs")
 	}
 	kcp := c.add(cpScaleInput(cal.Runs[0].MeanTemperature))
+	first := len(c.inputs)
 	out := calModel{kcp: kcp}
 	n := len(cal.Runs)
 	models := make([]calRunModel, n)
@@ -697,6 +711,9 @@ func (cal *Calibration) model(c *chain) (calModel, error) {
 	}
 	for i := range w {
 		w[i] /= sw
+	}
+	if n > 1 {
+		calCorrelateMeters(c, first)
 	}
 	extra := -1
 	if n > 1 {
@@ -752,6 +769,39 @@ var (
 	// the inputs it stores.
 	ErrCalibrationEdited = errors.New("the file was edited or is corrupt")
 )
+
+// calMeters are the electrical inputs read from a meter: when several runs
+// of one calibration give the same reading uncertainty for them, it is the
+// meter's calibration uncertainty and does not average down between runs
+// (common practice: a systematic effect shared by the runs is fully
+// correlated, JCGM 100:2008 F.1.2.3 and 5.2.4).
+var calMeters = map[string]bool{"P": true, "V": true, "I": true}
+
+// calCorrelateMeters sets r = 1 between the meter inputs of different runs
+// (chain inputs from index first on) that share symbol, unit and standard
+// uncertainty.
+func calCorrelateMeters(c *chain, first int) {
+	type key struct {
+		sym, unit string
+		u         float64
+	}
+	groups := map[key][]int{}
+	for i := first; i < len(c.inputs); i++ {
+		in := c.inputs[i]
+		base, _, _ := strings.Cut(in.Symbol, "[")
+		if calMeters[base] && in.U > 0 {
+			k := key{base, in.Unit, in.U}
+			groups[k] = append(groups[k], i)
+		}
+	}
+	for _, g := range groups {
+		for a := 0; a < len(g); a++ {
+			for b := a + 1; b < len(g); b++ {
+				c.correlate(g[a], g[b], 1)
+			}
+		}
+	}
+}
 
 // WriteCalibration writes the calibration file: versioned, indented JSON.
 func WriteCalibration(w io.Writer, cal *Calibration) error {

@@ -255,7 +255,9 @@ func TestCalibrateMixingIAPWS(t *testing.T) {
 		t.Fatal(err)
 	}
 	// The table's h has 4 decimals in kJ/kg and the model's c_p fit is
-	// within 2·10⁻⁴ J/g of IAPWS-95 enthalpy differences (water.go): 0.005 J/K.
+	// within 4·10⁻⁴ J/g of IAPWS-95 enthalpy differences (water.go, tested
+	// in TestWaterAgainstIAPWS95): 2·50 g·4·10⁻⁴ J/g/12 K = 0.0033 J/K at
+	// most, tolerance 0.005 J/K.
 	if run.Vessel == nil || !chainClose(*run.Vessel, chainIAPWSVessel, 0.005, 0) {
 		t.Fatalf("vessel part %v J/K, hand calculation from IAPWS-95 rows %.4f J/K", run.Vessel, chainIAPWSVessel)
 	}
@@ -347,7 +349,7 @@ func TestCalibrateMixingCup(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			// The simulated cup is 24 J/K; the brief's tolerance 4 J/K
+			// The simulated cup is 24 J/K (chainCup); the brief's tolerance 4 J/K
 			// (DOMAIN §3: u(C_cal) ≈ 3–4 J/K for u(T) = 0.1 K).
 			if run.Vessel == nil || !chainClose(*run.Vessel, chainCup, 4, 0) {
 				t.Errorf("cup heat capacity %v J/K, simulated %.0f J/K (tolerance 4 J/K)", run.Vessel, chainCup)
@@ -408,7 +410,12 @@ func TestCombine(t *testing.T) {
 		runs []in
 		// Hand calculation: ε_i = q_i/ΔT_i, u_i = ε_i·u(ΔT_i)/ΔT_i,
 		// w_i = 1/u_i², ε̄ = Σw_i ε_i/Σw_i, χ² = Σ(ε_i − ε̄)²/u_i²,
-		// R_B = √(χ²/(n−1)), u = max(1, R_B)/√Σw_i (Birge 1932).
+		// R_B = √(χ²/(n−1)), u = max(1, R_B)/√Σw_i (Birge 1932). The
+		// figures below were recomputed with numpy 1.24.2 from these
+		// formulas: e=q/dT; ue=e*u/dT; w=1/ue**2; m=(w*e).sum()/w.sum();
+		// rb=sqrt(((e-m)**2*w).sum()/(n-1)); max(1,rb)/sqrt(w.sum());
+		// np.std(e, ddof=1). Tolerances 2e-4 J/K on ε̄, 1e-4 relative on
+		// R_B and u, 1e-5 on the SD (the hand figures carry 6–7 digits).
 		mean, u, birge float64
 		sd             float64 // sample SD of the ε_i about their plain mean
 		status         Status
@@ -765,6 +772,10 @@ func ExampleCombine() {
 	}
 	fmt.Printf("ε = %.1f ± %.1f J/K from %d runs, Birge ratio %.2f (%s)\n",
 		cal.HeatCapacity, cal.UHeatCapacity, len(cal.Runs), cal.Scatter.BirgeRatio, cal.Status)
+	// By hand with the formulas of TestCombine, u(q) = √((300·0.0002)² +
+	// (0.5·0.05)²) = 0.065 J, recomputed with numpy 1.24.2: ε̄ = 500.499,
+	// R_B = 1.298, u = R_B/√Σw = 0.501 J/K.
+
 	// Output:
 	// ε = 500.5 ± 0.5 J/K from 2 runs, Birge ratio 1.30 (pass)
 }

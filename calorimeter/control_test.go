@@ -70,9 +70,20 @@ func controlJoin(parts ...[]float64) []float64 {
 	return x
 }
 
-// TestIndividualsChartRules builds one series per rule. The centres and σ
-// in the comments are hand arithmetic, cross-checked with python3 (a plain
-// transcription of the formulas: mean, mean |Δx|, /1.128).
+// TestIndividualsChartRules builds one series per rule (the rules as
+// IndividualsChart's doc states them: Western Electric rules of the
+// NIST/SEMATECH e-Handbook §6.3.2 and Nelson's trend test, from memory).
+// The centres and σ in the comments are hand arithmetic, cross-checked with
+// numpy 1.24.2, the formulas written out directly:
+//
+//	/usr/bin/python3 -c 'import numpy as np
+//	alt=lambda n:[i%2 for i in range(n)]
+//	for v in [alt(20), alt(20)+[6,1,0,1,0], alt(20)+[3,0,3,1,0,1,0],
+//	          alt(12)+[0.8,1.2]*4+[0.8]+alt(8), alt(12)+[0.1,0.3,0.5,0.7,0.9,1.1,1.3]+alt(8)]:
+//	  x=np.array(v,float); m=x.mean(); s=np.abs(np.diff(x)).mean()/1.128
+//	  print(round(m,4), round(s,4), round(m+2*s,4), round(m+3*s,4))'
+//
+// The flagged indices follow from those limits by counting (analytic).
 func TestIndividualsChartRules(t *testing.T) {
 	type flag struct {
 		index int
@@ -253,7 +264,12 @@ func TestControlChartSummary(t *testing.T) {
 }
 
 // ExampleIndividualsChart charts the heat capacity found by eight
-// calibrations of one coffee-cup calorimeter (J/K; invented values).
+// calibrations of one coffee-cup calorimeter (J/K; invented values). The
+// figures were recomputed with numpy 1.24.2 from the e-Handbook formulas:
+// /usr/bin/python3 -c 'import numpy as np; x=np.array([452.3,451.8,452.9,
+// 452.1,452.6,451.9,452.4,456.8]); m=x.mean(); r=np.abs(np.diff(x)).mean();
+// s=r/1.128; print(m, r, s, m-3*s, m+3*s, m-2*s, m+2*s, (x[-1]-m)/s)' →
+// 452.85 1.214286 1.076494 449.6205 456.0795 450.6970 455.0030 3.669.
 func ExampleIndividualsChart() {
 	heatCapacity := []float64{452.3, 451.8, 452.9, 452.1, 452.6, 451.9, 452.4, 456.8}
 	c, err := IndividualsChart(heatCapacity)

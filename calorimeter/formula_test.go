@@ -55,8 +55,10 @@ func TestMolarMassCheckValues(t *testing.T) {
 }
 
 func TestMolarMassUncertainty(t *testing.T) {
-	// analytic from CIAAW 2021 intervals and values, u = (b − a)/(2√3) for
-	// interval elements and U/√3 for single-value ones (van der Veen et al. 2021):
+	// analytic from CIAAW 2021 intervals and values (Prohaska et al., Pure
+	// Appl. Chem. 94 (2022) 573, Table 1), u = (b − a)/(2√3) for interval
+	// elements and U/√3 for single-value ones (van der Veen et al. 2021);
+	// tolerance 1e-12 g/mol (the same sums in another order):
 	uH := (1.00811 - 1.00784) / (2 * math.Sqrt(3))
 	uO := (15.99977 - 15.99903) / (2 * math.Sqrt(3))
 	uN := (14.00728 - 14.00643) / (2 * math.Sqrt(3))
@@ -316,6 +318,10 @@ func FuzzParseFormula(f *testing.F) {
 	})
 }
 
+// ExampleMolarMass: by hand from the CIAAW 2021 values (DOMAIN §6),
+// 63.546 + 32.06 + 9·15.999 + 10·1.008 = 249.677 g/mol; u from the rule of
+// TestMolarMassUncertainty, computed with python3: sqrt(uCu² + uS² +
+// (9uO)² + (10uH)²) = 0.00560 g/mol.
 func ExampleMolarMass() {
 	m, u, err := MolarMass("CuSO4·5H2O")
 	if err != nil {

@@ -69,9 +69,11 @@ func GradeResult(x, u, U, accepted, uAccepted, sigmaPT float64) Grade {
 // words for a student: the sign reversed, J confused with kJ, per gram
 // instead of per mole, the wrong salt, the calorimeter's own heat capacity
 // left out, and the
-// failed or warned checks of the run. It looks at the ratio x/x_pt; each
-// rule allows ±15 % (common practice for teaching-lab runs, whose own
-// uncertainty is several per cent, DOMAIN §10).
+// failed or warned checks of the run. It looks at the ratio x/x_pt; the
+// rules for the sign, the factor 1000 and the molar mass allow ±15 %
+// (common practice for teaching-lab runs, whose own uncertainty is several
+// per cent, DOMAIN §10); the wrong salt is named as gradeOtherSubstance
+// says; a result 3–50 % low or 3–100 % high is reported as such.
 func Diagnose(x, accepted, molarMass float64, checks []Check) []string {
 	var out []string
 	near := func(r, target float64) bool { return math.Abs(r/target-1) < 0.15 }

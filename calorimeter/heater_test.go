@@ -182,6 +182,10 @@ func ExampleHeaterPulses() {
 	for _, h := range ps {
 		fmt.Printf("on %.0f s, off %.0f s: %.1f ± %.1f J at %.3f W\n", h.On, h.Off, h.Energy, h.UEnergy, h.MeanPower)
 	}
+	// analytic, as in TestHeaterPulses: 12 readings × 1 W × 10 s = 120 J,
+	// edges halfway between readings; s_P = 0, so u = √2·(1 W·10 s/√12) =
+	// 4.08 J from the two edges.
+
 	// Output:
 	// on 115 s, off 235 s: 120.0 ± 4.1 J at 1.000 W
 }

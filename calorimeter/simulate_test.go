@@ -139,11 +139,13 @@ func TestSimulationNoise(t *testing.T) {
 		s.NoiseAR = 0.6
 		_, th, _ := s.Run()
 		// The marginal SD stays σ (stationary AR(1)); its SE grows by
-		// √((1+φ²)/(1−φ²)) ≈ 1.46, so 4 % is still 5 SE.
+		// √((1+φ²)/(1−φ²)) ≈ 1.46 (Bartlett's variance of the sample
+		// variance of an AR(1) series, from memory), so 4 % is still 5 SE.
 		if got := sd(th); math.Abs(got/s.Noise-1) > 0.04 {
 			t.Errorf("AR(1) noise SD %g K, want %g K", got, s.Noise)
 		}
-		// Lag-1 autocorrelation: SE √((1 − φ²)/n) = 0.0057; 0.03 is 5 SE.
+		// Lag-1 autocorrelation: SE √((1 − φ²)/n) = 0.0057 (Bartlett's
+		// formula, Box, Jenkins & Reinsel §2.1.6); 0.03 is 5 SE.
 		r := make([]float64, len(th))
 		for k := range th {
 			r[k] = th[k] - 300

@@ -38,9 +38,12 @@ func TestStandardReferencePoints(t *testing.T) {
 		{"TRIS in HCl", "tris-hcl", 0, -245.76 * mTRIS, 1e-9, math.Hypot(0.26*mTRIS, 245.76*uMTRIS), 1e-9},
 		{"TRIS in HCl per mole as DOMAIN rounds it", "tris-hcl", 0, -29770, 1, math.Hypot(0.26*mTRIS, 245.76*uMTRIS), 1e-9},
 		// Prosen & Kilday 1973: +141.80 ± 0.19 J/g; DOMAIN §3: +17.18 kJ/mol
+		// (141.80 × 121.136 = 17177 J/mol, hence the 5 J/mol tolerance)
 		{"TRIS in NaOH", "tris-naoh", 0, 141.80 * mTRIS, 1e-9, math.Hypot(0.19*mTRIS, 141.80*uMTRIS), 1e-9},
 		{"TRIS in NaOH per mole as DOMAIN rounds it", "tris-naoh", 0, 17180, 5, math.Hypot(0.19*mTRIS, 141.80*uMTRIS), 1e-9},
-		// CODATA key values (DOMAIN §3): −285.830 + 230.015 = −55.815 kJ/mol,
+		// Tolerances are float rounding (1e-9 J/mol) except where DOMAIN
+		// rounds the value. CODATA key values (DOMAIN §3): −285.830 + 230.015
+		// = −55.815 kJ/mol,
 		// u = √(0.040² + 0.040²) kJ/mol
 		{"neutralisation", "neutralisation", 0, -55815, 1e-6, 40 * math.Sqrt2, 1e-9},
 		// a standard without a dilution table ignores the molality
@@ -73,7 +76,8 @@ func TestStandardTemperatureCorrection(t *testing.T) {
 		wantU    float64
 	}{
 		// analytic: ΔH(T) = ΔH(Tref) + ΔCp·(T − Tref); KCl value and ΔCp =
-		// −150 J/(mol·K) from memory (DOMAIN §3), u(ΔCp) = 10 our allowance
+		// −150 J/(mol·K) from memory (DOMAIN §3), u(ΔCp) = 10 our allowance;
+		// tolerance 1e-6 J/mol on ΔH and 1e-9 on u (the same sums)
 		{"KCl at 303.15 K", "kcl", 303.15, 17584 - 150*5, math.Hypot(17, 10*5)},
 		{"KCl at 293.15 K", "kcl", 293.15, 17584 + 150*5, math.Hypot(17, 10*5)},
 		// analytic, Prosen & Kilday 1973 ΔCp = 1.435 ± 0.023 J/(g·K)
@@ -120,7 +124,8 @@ func TestStandardKClDilution(t *testing.T) {
 			if math.Abs(h-(hInf+p.PhiL)) > 1e-9 {
 				t.Errorf("ΔH = %.6f J/mol, want ΔH∞ + φL = %.6f", h, hInf+p.PhiL)
 			}
-			// analytic: u² = 17² + (0.03·(φL(m) − 344))²
+			// analytic: u² = 17² + (0.03·(φL(m) − 344))², 17 J/mol from memory
+			// (certificate) and 3 % our allowance on the dilution correction
 			if want := math.Hypot(17, 0.03*(p.PhiL-344)); math.Abs(u-want) > 1e-9 {
 				t.Errorf("u = %.6f J/mol, want %.6f", u, want)
 			}
@@ -144,7 +149,8 @@ func TestStandardKClDilution(t *testing.T) {
 			}
 		}
 	}
-	// both corrections together add: analytic
+	// both corrections together add: analytic, 17584 J/mol (from memory)
+	// − 150·2 (ΔCp from memory) + φL(0.05) − φL(0.111) (DOMAIN §3 table)
 	h, _, err := s.EnthalpyAt(300.15, 0.05)
 	if want := 17584 - 150*2 + (289 - 344.0); err != nil || math.Abs(h-want) > 1e-9 {
 		t.Errorf("ΔH(300.15 K, 0.05 mol/kg) = %.4f, %v; want %.4f", h, err, want)
@@ -257,7 +263,9 @@ func TestStandardCallerTable(t *testing.T) {
 	s := stdMustLookup(t, "kcl")
 	s.dilution = nil // as if built by the caller
 	h, _, err := s.EnthalpyAt(298.15, 0.2)
-	if want := 17584 + (358 - 344.0); err != nil || math.Abs(h-want) > 1e-9 { // DOMAIN §3 table, analytic
+	// analytic from DOMAIN §3: 17584 J/mol (SRM 1655, from memory) plus the
+	// φL table's 358 − 344 J/mol between 0.2 and 0.111 mol/kg
+	if want := 17584 + (358 - 344.0); err != nil || math.Abs(h-want) > 1e-9 {
 		t.Errorf("caller-built table: ΔH = %g, %v; want %g", h, err, want)
 	}
 	s.Dilution = []DilutionPoint{{0.1, 1}, {0.05, 2}}
@@ -266,6 +274,10 @@ func TestStandardCallerTable(t *testing.T) {
 	}
 }
 
+// ExampleStandard_EnthalpyAt: by hand from DOMAIN §3 (the KCl value and
+// ΔCp from memory): 17584 + 150·0.8 + (289 − 344) = 17649 J/mol; u =
+// √(17² + (10·0.8)² + (0.03·55)²) = 18.9 J/mol (u(ΔCp) = 10 J/(mol·K) and
+// the 3 % on the φL correction are our allowances, see standards.go).
 func ExampleStandard_EnthalpyAt() {
 	s, err := LookupStandard("kcl")
 	if err != nil {
@@ -413,6 +425,8 @@ func TestCaution(t *testing.T) {
 	}
 }
 
+// ExampleLookupReference: +25.69 kJ/mol for NH4NO3 at 298.15 K, infinite
+// dilution, DOMAIN §5 (NBS tables / Parker 1965).
 func ExampleLookupReference() {
 	r, ok := LookupReference("NH4NO3")
 	if !ok {

@@ -33,7 +33,7 @@
 // with Marquardt's scaled damping (Marquardt, J. SIAM 11 (1963) 431):
 // D² = diag(JᵀJ), kept as the running maximum over the iterations so that
 // the scaling never collapses (Moré, The Levenberg–Marquardt algorithm:
-// implementation and theory, Lecture Notes in Math. 630 (1978) 105). The
+// implementation and theory, Lect. Notes Math. 630 (1978) 105). The
 // damped problem is solved by QR — of [J | r] once per accepted point, then
 // of the small stacked matrix [R; √λ·D] per trial — never by the normal
 // equations. A trial is accepted when it lowers the sum of squares; λ is

@@ -158,7 +158,9 @@ func TestEvalUAnalytic(t *testing.T) {
 
 func TestPolynomialSlope(t *testing.T) {
 	// analytic: an exact cubic y = 1 − 2x + 0.5x² + 0.25x³ plus alternating
-	// ±1e-3 noise is recovered; slope −2 + x + 0.75x².
+	// ±1e-3 noise is recovered; slope −2 + x + 0.75x². Tolerances: 3e-3 on
+	// each coefficient and 5e-3 on the slope, a few times the ±1e-3
+	// perturbation over x in [−2, 2].
 	var x, y []float64
 	for i := range 21 {
 		v := -2 + 0.2*float64(i)
@@ -291,7 +293,10 @@ func TestLinearErrors(t *testing.T) {
 
 func TestLineLargeOffset(t *testing.T) {
 	// A time axis far from zero (Unix seconds) must not cost accuracy:
-	// y = 20 + 1e-4·(x − x0) exactly, x0 = 1.7e9 s. analytic.
+	// y = 20 + 1e-4·(x − x0) plus noise of SD 1e-6, x0 = 1.7e9 s. analytic:
+	// SD(slope) = 1e-6/√Σ(x − x̄)² = 1e-6/√(4·200(200²−1)/12) ≈ 6e-10, so
+	// the 1e-8 tolerance is 16 SD; SD of the value at x0 + 100 is below
+	// 1e-6/√200 + 100·6e-10 ≈ 1.3e-7, tolerance 1e-6.
 	x0 := 1.7e9
 	var x, y []float64
 	r := rand.New(rand.NewPCG(1, 2))

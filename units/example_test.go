@@ -80,6 +80,8 @@ func ExampleRound() {
 	// 10.058 0.027
 }
 
+// ExampleFormatQuantity: 25 °C = 298.15 K = 77 °F and u = 0.1 K = 0.18 °F
+// (NIST SP 811, B.9), rounded as JCGM 100:2008, 7.2.6 says.
 func ExampleFormatQuantity() {
 	q, _ := units.Parse("25.0±0.1 °C", units.Temperature, "°C")
 	for _, unit := range []string{"K", "°C", "°F"} {
@@ -92,6 +94,8 @@ func ExampleFormatQuantity() {
 	// 77.00 ± 0.18 °F
 }
 
+// ExampleToUnit: by definition T/K = t/°C + 273.15 (SI Brochure 2.3.1),
+// 1 K = 1.8 °F as a difference and 1 kcal = 4184 J (NIST SP 811, B.8, B.9).
 func ExampleToUnit() {
 	c, _ := units.ToUnit(298.15, units.Temperature, "°C")
 	d, _ := units.ToUnit(1, units.TemperatureDifference, "°F")

@@ -85,6 +85,9 @@ func TestRound(t *testing.T) {
 	}
 }
 
+// TestFormat: the strings are worked by hand from the JCGM 100:2008, 7.2.6
+// rule (u to two significant digits, the value to the same place), as in
+// TestRound (analytic); the concise forms follow 7.2.2 form (2).
 func TestFormat(t *testing.T) {
 	tests := []struct {
 		name          string
@@ -146,6 +149,9 @@ func TestFormatParseRoundTrip(t *testing.T) {
 	}
 }
 
+// TestFormatQuantity: conversions by the definitions cited in
+// TestParseUnits (T/K = t/°C + 273.15; 1 K = 1.8 °F as a difference),
+// rounded by the JCGM 100:2008, 7.2.6 rule (analytic).
 func TestFormatQuantity(t *testing.T) {
 	tests := []struct {
 		name string

@@ -102,6 +102,7 @@ func TestControlChartSVG(t *testing.T) {
 			if !approx(c[0]-l3[0], l3[1]-c[0], 1e-4) || !approx(c[0]-l2[0], l2[1]-c[0], 1e-4) {
 				t.Errorf("limits not symmetric about the centre: %v %v %v", l3, l2, c)
 			}
+			// analytic: (x̄ + 2σ − x̄)/(x̄ + 3σ − x̄) = 2/3; 1e-4 for SVG rounding
 			if r := (l2[1] - c[0]) / (l3[1] - c[0]); !approx(r, 2.0/3, 1e-4) {
 				t.Errorf("2σ/3σ distance ratio %.6f, want 2/3", r)
 			}

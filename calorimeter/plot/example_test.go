@@ -51,6 +51,8 @@ func ExampleWriteThermogram() {
 		return
 	}
 	fmt.Printf("%s, %d×%d px, ΔT = %.3f K\n", format, img.Bounds().Dx(), img.Bounds().Dy(), th.DeltaT)
+	// analytic: ΔT = (296.10 − 2e-4·310) − (294.00 + 1e-4·310) = 2.007 K.
+
 	// Output:
 	// png, 1200×800 px, ΔT = 2.007 K
 }

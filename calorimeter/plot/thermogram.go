@@ -312,7 +312,8 @@ func (f *thermoFigure) equalAreas() (left, right []xy) {
 }
 
 // plusMinus formats v ± u with u to two significant digits and v to the
-// same decimal place (units.Format, GUM 7.2.6).
+// same decimal place (units.Format, GUM 7.2.6); without a positive, finite
+// u it writes v to four decimals.
 func plusMinus(v, u float64, unit string) string {
 	if !finite(u) || u <= 0 {
 		return fmt.Sprintf("%.4f %s", v, unit)

@@ -126,6 +126,8 @@ func TestThermogramLines(t *testing.T) {
 			t.Errorf("%s line: solid/dashed widths %.5g/%.5g, want ratio %.4g", p.name, ws, wd, p.solid/p.dashed)
 		}
 		slopeS, slopeD := (s[1][1]-s[0][1])/ws, (d[1][1]-d[0][1])/wd
+		// one line, so equal slopes (analytic); 2 % allows the 5-digit SVG
+		// coordinates over the shorter dashed part and the line's own slope
 		if !approx(slopeS, slopeD, 0.02) {
 			t.Errorf("%s line: extrapolation slope %.5g differs from the fitted %.5g", p.name, slopeD, slopeS)
 		}
@@ -181,6 +183,9 @@ func TestThermogramLabel(t *testing.T) {
 	}
 }
 
+// TestPlusMinus: the strings are worked by hand from the JCGM 100:2008,
+// 7.2.6 rule (analytic, as in units.TestRound); without u, four decimals
+// as plusMinus's doc says.
 func TestPlusMinus(t *testing.T) {
 	tests := []struct {
 		name string

@@ -37,13 +37,11 @@ const cupHeatCapacity = 24.0 // J/K
 type student struct {
 	runID, name, formula, label string
 	mass, water                 float64 // g
-	trueH                       float64 // J/mol, what the run "really" released
 	start                       float64 // s of logging before the salt goes in
 	g                           float64 // 1/s
 	lambda                      float64 // 1/s dissolution rate
 	spike                       bool
 	seed                        uint64
-	accepted                    string
 	note                        string
 }
 
@@ -65,7 +63,7 @@ func harbourStreet(out map[string][]byte) error {
 	}
 	var manifest bytes.Buffer
 	manifest.WriteString("# Harbour Street College, CHEM 121 section B, thermochemistry practical, week 7\n")
-	manifest.WriteString("# instructor: Dr. Ines Halvorsen; accepted values are ΔsolH at infinite dilution, 298.15 K (NBS tables, DOMAIN §5)\n")
+	manifest.WriteString("# instructor: Dr. Ines Halvorsen; accepted values are ΔsolH at infinite dilution, 298.15 K (NBS tables, DOMAIN §5; KNO3 from memory)\n")
 	manifest.WriteString("log,kind,run_id,operator,sample_id,formula,sample_mass,solvent_mass,cold_mass,hot_mass,hot_temperature,cal,accepted,note\n")
 	for _, m := range mixes {
 		tf := mixFinal(m.mc, m.mh, m.tc, m.th)
@@ -211,8 +209,8 @@ func kestrel(out map[string][]byte) error {
 		out[dir+id+".tsv"] = qcLog(meta, start, t, theta)
 		fmt.Fprintf(&manifest, "%s.tsv,calibration,%s,%s,,,,%.2f g,,,,,,weekly electrical calibration\n", id, id, op, water)
 	}
-	// KCl check standard: SRM 1655, about 0.111 mol/kg (1.657 g in 200 g would be 0.111;
-	// in this 100 g cell 0.8285 g gives the same molality).
+	// KCl check standard: SRM 1655 is certified at 0.111 mol/kg (KCl + 500 H2O); in this
+	// 100 g cell 0.8281 g gives 0.8281/74.548/0.1 = 0.1111 mol/kg.
 	{
 		id := "kcl-check-01"
 		m, _, _ := calorimeter.MolarMass("KCl")
