@@ -253,7 +253,11 @@ func checkIncreasing(ri *runInput) error {
 	t, lines := ri.log.Time, ri.log.Line
 	for i := 1; i < len(t) && i < len(lines); i++ {
 		if !(t[i] > t[i-1]) {
-			return withHint(dataf("%s:%d: time %g s is not after the reading on line %d (%g s): the analysis needs times that increase", ri.name, lines[i], t[i], lines[i-1], t[i-1]),
+			what := fmt.Sprintf("the time repeats that of line %d", lines[i-1])
+			if t[i] < t[i-1] {
+				what = fmt.Sprintf("the time is %g s before that of line %d", t[i-1]-t[i], lines[i-1])
+			}
+			return withHint(dataf("%s:%d: %s; the analysis needs times that increase", ri.name, lines[i], what),
 				"remove or correct the repeated reading; `calred inspect` lists repeated times")
 		}
 	}
