@@ -7,6 +7,7 @@ import (
 
 	flag "github.com/spf13/pflag"
 
+	"calred/calorimeter"
 	"calred/units"
 )
 
@@ -31,7 +32,7 @@ var fields = []field{
 	{name: "molar-mass", dim: units.MolarMass, unit: "g/mol", use: "rc", help: "molar mass of the solute, g/mol (instead of --formula)", sign: '+'},
 	{name: "solvent-mass", dim: units.Mass, unit: "g", use: "rc", help: "mass of solvent (water) in the vessel, g", sign: '+'},
 	{name: "solution-cp", dim: units.SpecificHeat, unit: "J/(g·K)", use: "rc", help: "specific heat of the solution, J/(g·K) (default: water at the run's mean temperature)", sign: '+'},
-	{name: "u-mass", dim: units.Mass, unit: "g", use: "rc", help: "standard uncertainty of each weighing, g (default 0.0005 g, stated in the output)", sign: '0'},
+	{name: "u-mass", dim: units.Mass, unit: "g", use: "rc", help: "standard uncertainty of each weighing, g (default 0.0005 g, stated in the output)", sign: '+'},
 	// The calorimeter.
 	{name: "cal", text: true, use: "r", help: "calibration `FILE` written by calred calibrate -o"},
 	{name: "heat-capacity", dim: units.HeatCapacity, unit: "J/K", use: "r", help: "total heat capacity of the calorimeter, J/K, e.g. 452±0.8J/K", sign: '+'},
@@ -131,6 +132,9 @@ func (s *spec) quantity(name string) (q units.Quantity, ok bool, err error) {
 		return q, false, s.failf(name, "%q must be greater than 0 %s", s.text(name), f.unit)
 	case f.sign == '0' && !(q.Value >= 0):
 		return q, false, s.failf(name, "%q must not be negative", s.text(name))
+	case f.dim == units.Mass && q.HasU && q.U == 0:
+		// The analysis reads a zero as "none given" and puts the default in.
+		return q, false, s.failf(name, "%q: a weighing's standard uncertainty is never 0; give your balance's, or none for the default %g g", s.text(name), calorimeter.DefaultUMass)
 	}
 	return q, true, nil
 }

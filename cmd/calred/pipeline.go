@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"strings"
 	"unicode"
@@ -239,6 +240,9 @@ func analyse(ri *runInput, lf limitFlags) (*calorimeter.Rise, error) {
 	if err := checkIncreasing(ri); err != nil {
 		return nil, err
 	}
+	if err := checkLiquidRange(ri); err != nil {
+		return nil, err
+	}
 	rise, err := calorimeter.AnalyseRise(ri.log.Time, ri.log.Temperature, opt)
 	if err != nil {
 		return nil, withHint(dataf("%s: %w", ri.name, err), riseHint(ri.spec, err))
@@ -262,6 +266,41 @@ func checkIncreasing(ri *runInput) error {
 		}
 	}
 	return nil
+}
+
+// The readings of a solution calorimeter lie where an aqueous solution is
+// liquid. The bounds are wide on purpose (supercooled brines, a warm
+// bath; common practice): a median outside them means the temperature unit
+// is wrong, as with °C readings under a "T/K" header.
+const (
+	liquidMinK = 233.15 // −40 °C
+	liquidMaxK = 423.15 // 150 °C
+)
+
+// checkLiquidRange refuses a log whose median reading is where no aqueous
+// solution is liquid, naming the unit it was read in and where that unit
+// came from (--temperature-unit, or the header).
+func checkLiquidRange(ri *runInput) error {
+	th := ri.log.Temperature
+	if len(th) == 0 {
+		return nil
+	}
+	sorted := append([]float64(nil), th...)
+	sort.Float64s(sorted)
+	med := sorted[len(sorted)/2]
+	if med >= liquidMinK && med <= liquidMaxK {
+		return nil
+	}
+	unit := "°" + ri.log.Dialect.TemperatureUnit
+	if unit == "°K" {
+		unit = "K"
+	}
+	msg := fmt.Sprintf("the readings, taken as %s, sit at %.4g °C (median), where no aqueous solution is liquid", unit, med-273.15)
+	hint := "give the unit the logger wrote with --temperature-unit C, K or F"
+	if ri.spec.has("temperature-unit") {
+		return withHint(ri.spec.failf("temperature-unit", "%s", msg), hint)
+	}
+	return withHint(dataf("%s:%d: %s", ri.name, ri.log.Dialect.HeaderLine, msg), hint)
 }
 
 // riseHint is the next step after a failed analysis: the mixing time when
