@@ -199,6 +199,9 @@ func calibratePulses(ri *runInput, setup calorimeter.CalibrationSetup, pulses []
 	if err := checkIncreasing(ri); err != nil {
 		return nil, err
 	}
+	if err := checkLiquidRange(ri); err != nil {
+		return nil, err
+	}
 	pc, err := calorimeter.CalibratePulses(ri.log.Time, ri.log.Temperature, pulses, setup, opt)
 	if err != nil {
 		return nil, withHint(dataf("%s: %w", ri.name, err), "look at the log with `calred inspect`; each heating period needs fore and after periods of its own")
