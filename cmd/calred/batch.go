@@ -50,7 +50,7 @@ func runBatch(a *app, args []string) error {
 		return err
 	}
 	if fs.NArg() != 1 {
-		return withHint(usagef("batch: want exactly one MANIFEST.csv, got %d arguments", fs.NArg()), "calred batch class.csv -o results.csv --report report.html")
+		return withHint(usagef("batch: want exactly one MANIFEST.csv, got %d arguments", fs.NArg()), "e.g. `calred batch class.csv -o results.csv --report report.html`")
 	}
 	sigma, sigmaRel, err := parseSigmaPT(*sigmaPT)
 	if err != nil {

@@ -41,7 +41,7 @@ func runCalibrate(a *app, args []string) error {
 		return err
 	}
 	if fs.NArg() == 0 {
-		return withHint(usagef("calibrate: no LOG given"), "calred calibrate heater1.csv --heater-power 1.000W --heater-time 300s -o cal.json")
+		return withHint(usagef("calibrate: no LOG given"), "e.g. `calred calibrate heater1.csv --heater-power 1.000W --heater-time 300s -o cal.json`")
 	}
 	flags := newSpec()
 	flags.fromFlags(fs)

@@ -17,7 +17,7 @@ func runInspect(a *app, args []string) error {
 		return err
 	}
 	if fs.NArg() != 1 {
-		return withHint(usagef("inspect: want exactly one LOG, got %d arguments", fs.NArg()), "calred inspect run7.csv")
+		return withHint(usagef("inspect: want exactly one LOG, got %d arguments", fs.NArg()), "e.g. `calred inspect run7.csv`")
 	}
 	opt, err := lf.options()
 	if err != nil {

@@ -33,7 +33,7 @@ func runReduce(a *app, args []string) error {
 		return err
 	}
 	if fs.NArg() != 1 {
-		return withHint(usagef("reduce: want exactly one LOG, got %d arguments", fs.NArg()), "calred reduce run7.csv --sample-mass 2.503g --formula KNO3 --heat-capacity 452J/K")
+		return withHint(usagef("reduce: want exactly one LOG, got %d arguments", fs.NArg()), "e.g. `calred reduce run7.csv --sample-mass 2.503g --formula KNO3 --heat-capacity 452J/K`")
 	}
 	flags := newSpec()
 	flags.fromFlags(fs)
