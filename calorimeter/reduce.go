@@ -219,6 +219,12 @@ func (r *Reduction) Inputs() ([]Input, [][]float64) { return r.chainInputs, r.ch
 
 func reduceChecks(r *Reduction) []Check {
 	var out []Check
+	finite := func(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+	if !finite(r.MolarEnthalpy) || !finite(r.UMolarEnthalpy) || !finite(r.CoverageFactor) || !finite(r.Expanded) ||
+		!(r.UMolarEnthalpy < math.Abs(r.MolarEnthalpy)) {
+		out = append(out, Check{Name: "result-determined", Status: Fail,
+			Detail: fmt.Sprintf("the result is not determined: ΔsolH = %g ± %g kJ/mol (k = %g); check the masses and the heat capacity for absurd values", r.MolarEnthalpy, r.UMolarEnthalpy, r.CoverageFactor)})
+	}
 	if !(r.HeatCapacity > 0) {
 		out = append(out, Check{Name: "heat-capacity-positive", Status: Fail,
 			Detail: fmt.Sprintf("the heat capacity used is %.4g J/K; it must be positive", r.HeatCapacity)})

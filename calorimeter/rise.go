@@ -650,8 +650,12 @@ func riseValidate(t, theta []float64, opt *RiseOptions) error {
 		if math.IsNaN(p.p.Start) || math.IsNaN(p.p.End) || !(p.p.Start < p.p.End) {
 			return bad("%s [%g, %g] s does not have start < end", p.name, p.p.Start, p.p.End)
 		}
-		if p.p.End < t0 || p.p.Start > tn {
-			return bad("%s [%g, %g] s lies outside the log (%g s to %g s)", p.name, p.p.Start, p.p.End, t0, tn)
+		// A given period must lie within the readings (one mean sampling
+		// interval of slack at each end): a period reaching past them would
+		// be reported as used while fewer readings were.
+		slack := (tn - t0) / float64(n-1)
+		if p.p.Start < t0-slack || p.p.End > tn+slack {
+			return bad("%s [%g, %g] s reaches outside the log (%g s to %g s)", p.name, p.p.Start, p.p.End, t0, tn)
 		}
 	}
 	if opt.Pre != nil && opt.Post != nil && !(opt.Pre.End < opt.Post.Start) {
