@@ -743,7 +743,7 @@ func writeReport(w io.Writer, title, manifest string, results []*batchResult) er
 		}
 		if th != nil {
 			var buf bytes.Buffer
-			if err := plotThermogram(&buf, "svg", th); err == nil {
+			if err := plot.WriteThermogram(&buf, "svg", *th, plot.Options{MaxPoints: reportMaxPoints}); err == nil {
 				e.SVG = buf.String()
 			}
 		}
@@ -751,3 +751,7 @@ func writeReport(w io.Writer, title, manifest string, results []*batchResult) er
 	}
 	return report.Write(w, rep)
 }
+
+// reportMaxPoints thins each figure of the HTML report (min/max per bucket,
+// package plot) so that a report of hundreds of runs stays a few MB.
+const reportMaxPoints = 800
