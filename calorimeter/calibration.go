@@ -178,7 +178,11 @@ func (r *CalibrationRun) build(c *chain, kcp int, tag string) (calRunModel, erro
 		if _, dup := idx[s.Symbol]; dup {
 			return calRunModel{}, fmt.Errorf("%s: model input %q given twice", calWho(r.RunID), s.Symbol)
 		}
-		in := Input{Name: s.Name, Symbol: s.Symbol, Unit: s.Unit, Value: s.Value, U: s.U, DoF: s.DoF, Dist: distFromName(s.Dist)}
+		dist, err := distFromName(s.Dist)
+		if err != nil {
+			return calRunModel{}, fmt.Errorf("%s: input %q: %w", calWho(r.RunID), s.Symbol, err)
+		}
+		in := Input{Name: s.Name, Symbol: s.Symbol, Unit: s.Unit, Value: s.Value, U: s.U, DoF: s.DoF, Dist: dist}
 		if in.DoF <= 0 {
 			in.DoF = math.Inf(1)
 		}
@@ -288,32 +292,18 @@ func calWho(id string) string {
 	return "calibration " + id
 }
 
-func distFromName(s string) Distribution {
-	switch s {
-	case "rectangular":
-		return Rectangular
-	case "triangular":
-		return Triangular
-	case "student-t":
-		return StudentT
+// distFromName reads a stored distribution name (Distribution.String).
+func distFromName(s string) (Distribution, error) {
+	for _, d := range []Distribution{Normal, Rectangular, Triangular, StudentT} {
+		if d.String() == s {
+			return d, nil
+		}
 	}
-	return Normal
-}
-
-func distName(d Distribution) string {
-	switch d {
-	case Rectangular:
-		return "rectangular"
-	case Triangular:
-		return "triangular"
-	case StudentT:
-		return "student-t"
-	}
-	return "normal"
+	return Normal, fmt.Errorf("unknown distribution %q", s)
 }
 
 func storeInput(in Input) StoredInput {
-	s := StoredInput{Name: in.Name, Symbol: in.Symbol, Unit: in.Unit, Value: in.Value, U: in.U, Dist: distName(in.Dist)}
+	s := StoredInput{Name: in.Name, Symbol: in.Symbol, Unit: in.Unit, Value: in.Value, U: in.U, Dist: in.Dist.String()}
 	if !math.IsInf(in.DoF, 1) && in.DoF > 0 {
 		s.DoF = in.DoF
 	}
