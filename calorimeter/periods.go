@@ -119,6 +119,12 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 	}
 	bins := periodBins(t[pl.iStart:pl.iEnd], y[pl.iStart:pl.iEnd], pl.iStart)
 
+	// A log whose readings never change holds no process to look for.
+	if math.IsNaN(opt.MixTime) && periodFlat(y[pl.iStart:pl.iEnd]) {
+		return pl, fmt.Errorf("%w: the temperature does not change at all (%s of %.6g K from %.4g s to %.4g s), so the log holds no process",
+			ErrNoProcess, riseReadings(pl.iEnd-pl.iStart), y[pl.iStart], t[pl.iStart], t[pl.iEnd-1])
+	}
+
 	// The local slopes and the process they show.
 	peak, err := periodPeak(bins, periodNoise(bins.t, bins.y))
 	if err != nil && math.IsNaN(opt.MixTime) {
@@ -170,6 +176,19 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		return pl, fmt.Errorf("main period: starts at %.4g s but ends at %.4g s", pl.t1, pl.t2)
 	}
 	return pl, nil
+}
+
+// periodFlat reports whether the readings y never change: their range is
+// within float rounding (1e-12 of their size, as riseQuantum allows).
+func periodFlat(y []float64) bool {
+	if len(y) == 0 {
+		return false
+	}
+	lo, hi := y[0], y[0]
+	for _, v := range y {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return hi-lo <= 1e-12*math.Max(math.Abs(lo), math.Abs(hi))
 }
 
 // sort0 returns the index of the first t ≥ v.

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"calred/fit"
 )
@@ -681,6 +682,14 @@ func riseValidate(t, theta []float64, opt *RiseOptions) error {
 		return bad("probe correlation %g is outside [0, 1]", opt.ProbeCorrelation)
 	}
 	return nil
+}
+
+// riseReadings is "1 reading" or "n readings", for messages.
+func riseReadings(n int) string {
+	if n == 1 {
+		return "1 reading"
+	}
+	return strconv.Itoa(n) + " readings"
 }
 
 // riseQuantum detects the resolution of the readings: the smallest non-zero
