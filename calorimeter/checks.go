@@ -178,13 +178,13 @@ func (c *checkContext) periodLength(name, which string, f *driftFit, minS float6
 	dur := f.tEnd - f.tStart
 	switch {
 	case f.n < 5:
-		return Check{name, Fail, fmt.Sprintf("%s period has %d readings; fewer than 5 cannot show its drift and noise", which, f.n)}
+		return Check{name, Fail, fmt.Sprintf("%s period has %s; fewer than 5 cannot show its drift and noise", which, riseReadings(f.n))}
 	case dur < minS:
 		return Check{name, Warn, fmt.Sprintf("%s period %.0f s is shorter than the %.0f s needed for %s", which, dur, minS, need)}
 	case f.n < c.lim.MinPoints:
-		return Check{name, Warn, fmt.Sprintf("%s period has %d readings, fewer than the %d needed for %s", which, f.n, c.lim.MinPoints, need)}
+		return Check{name, Warn, fmt.Sprintf("%s period has %s, fewer than the %d needed for %s", which, riseReadings(f.n), c.lim.MinPoints, need)}
 	}
-	return Check{name, Pass, fmt.Sprintf("%s period %.0f s with %d readings", which, dur, f.n)}
+	return Check{name, Pass, fmt.Sprintf("%s period %.0f s with %s", which, dur, riseReadings(f.n))}
 }
 
 func (c *checkContext) driftFit(name, which string, f *driftFit) Check {
@@ -209,7 +209,7 @@ func (c *checkContext) driftLinear(name string, f *driftFit, edge float64) Check
 		which = "fore"
 	}
 	if f.n < 6 {
-		return Check{name, Warn, fmt.Sprintf("%s period has %d readings, too few to test that its drift is linear in θ", which, f.n)}
+		return Check{name, Warn, fmt.Sprintf("%s period has %s, too few to test that its drift is linear in θ", which, riseReadings(f.n))}
 	}
 	c2, u2 := checkCurvature(f.t, f.resid)
 	u := u2 * f.infl

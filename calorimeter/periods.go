@@ -154,8 +154,8 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		}
 	}
 	if pl.iF-pl.iStart < 3 {
-		return pl, fmt.Errorf("fore period: %w: %d readings before the mixing time %.4g s, need at least 3",
-			ErrTooFewReadings, pl.iF-pl.iStart, pl.tm)
+		return pl, fmt.Errorf("fore period: %w: %s before the mixing time %.4g s, need at least 3",
+			ErrTooFewReadings, riseReadings(pl.iF-pl.iStart), pl.tm)
 	}
 
 	// After period.
@@ -169,8 +169,8 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		}
 	}
 	if pl.iEnd-pl.iP < 3 {
-		return pl, fmt.Errorf("after period: %w: %d readings after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
-			ErrTooFewReadings, pl.iEnd-pl.iP, pl.t2)
+		return pl, fmt.Errorf("after period: %w: %s after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
+			ErrTooFewReadings, riseReadings(pl.iEnd-pl.iP), pl.t2)
 	}
 	if !(pl.t1 < pl.t2) {
 		return pl, fmt.Errorf("main period: starts at %.4g s but ends at %.4g s", pl.t1, pl.t2)
@@ -362,8 +362,8 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 		iF = b.hi[j]
 	}
 	if iF-iStart < 3 {
-		return 0, 0, fmt.Errorf("fore period: %w: the process starts near %.4g s, leaving %d readings before it",
-			ErrTooFewReadings, t[min(iF, len(t)-1)], iF-iStart)
+		return 0, 0, fmt.Errorf("fore period: %w: the process starts near %.4g s, leaving %s before it",
+			ErrTooFewReadings, t[min(iF, len(t)-1)], riseReadings(iF-iStart))
 	}
 	base, sd, err := periodBaseline(t[iStart:iF], y[iStart:iF])
 	if err != nil {

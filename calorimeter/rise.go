@@ -471,7 +471,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		switch {
 		case afterLong && afterLinear.Status == Pass:
 			method = MethodRegnaultPfaundler
-			res.MethodReason = fmt.Sprintf("auto: the after period (%.0f s, %d readings) is long enough and its drift is linear in θ", after.tEnd-after.tStart, after.n)
+			res.MethodReason = fmt.Sprintf("auto: the after period (%.0f s, %s) is long enough and its drift is linear in θ", after.tEnd-after.tStart, riseReadings(after.n))
 		case modelOK:
 			method = MethodModel
 			why := "too short"
@@ -618,7 +618,7 @@ func riseValidate(t, theta []float64, opt *RiseOptions) error {
 	case len(theta) != n:
 		return bad("%d times but %d temperatures", n, len(theta))
 	case n < riseMinPoints:
-		return bad("%d readings, need at least %d (three for each drift period and a main period)", n, riseMinPoints)
+		return bad("%s, need at least %d (three for each drift period and a main period)", riseReadings(n), riseMinPoints)
 	}
 	for k := range t {
 		if math.IsNaN(t[k]) || math.IsInf(t[k], 0) {

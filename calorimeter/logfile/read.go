@@ -543,7 +543,12 @@ func (rd *reader) finish() (*Log, error) {
 		return nil, rd.errf(0, 0, "no readings")
 	}
 	if rd.blanks > listedBlanks {
-		rd.warnf(0, "%d more readings skipped for blank cells (not listed)", rd.blanks-listedBlanks)
+		more := rd.blanks - listedBlanks
+		word := "readings"
+		if more == 1 {
+			word = "reading"
+		}
+		rd.warnf(0, "%d more %s skipped for blank cells (not listed)", more, word)
 	}
 	for i, at := range rd.extra {
 		l.Extra[rd.cols[at].Name] = rd.xvals[i]
