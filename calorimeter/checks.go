@@ -121,6 +121,7 @@ func (l CheckLimits) withDefaults() CheckLimits {
 // checkContext carries what the checks look at.
 type checkContext struct {
 	res         *Rise
+	times       []float64 // the caller's times (s), which Rise.Excluded indexes
 	lim         CheckLimits
 	fore, after *driftFit
 	model       modelResult
@@ -235,9 +236,13 @@ func (c *checkContext) spikes() Check {
 			at = append(at, "…")
 			break
 		}
-		at = append(at, fmt.Sprintf("%d", k))
+		at = append(at, fmt.Sprintf("%.6g s", c.times[k]))
 	}
-	return Check{"spikes", Warn, fmt.Sprintf("%d reading(s) excluded as spikes beyond robust z %.3g (index %s)", len(ex), c.lim.SpikeZ, strings.Join(at, ", "))}
+	what := riseReadings(len(ex)) + " excluded as spikes"
+	if len(ex) == 1 {
+		what = "1 reading excluded as a spike"
+	}
+	return Check{"spikes", Warn, fmt.Sprintf("%s beyond robust z %.3g (at %s)", what, c.lim.SpikeZ, strings.Join(at, ", "))}
 }
 
 func (c *checkContext) resolution() Check {

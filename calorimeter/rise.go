@@ -458,7 +458,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	}
 
 	// Checks that the choice depends on.
-	cc := &checkContext{res: res, lim: lim, fore: fore, after: after, model: mfit, modelOK: modelOK,
+	cc := &checkContext{res: res, times: t, lim: lim, fore: fore, after: after, model: mfit, modelOK: modelOK,
 		sigma: sigma, dt: dt, quantum: quantum}
 	afterLinear := cc.driftLinear("after-drift-linear", after, pl.t2)
 	foreLinear := cc.driftLinear("fore-drift-linear", fore, pl.t1)
