@@ -204,6 +204,11 @@ func (c *checkContext) driftFit(name, which string, f *driftFit) Check {
 // Newton's law gives it: a quadratic fitted to the residuals against the
 // period's Newtonian curve must have a second-order coefficient within
 // MaxCurvatureZ standard uncertainties (inflated for autocorrelation) of 0.
+//
+// A period whose residuals have no scatter at all (readings that never
+// change, or lie exactly on the curve) leaves no noise to judge the
+// curvature against: a flat period passes, and otherwise the curvature's
+// effect over the period is compared with the reading noise instead.
 func (c *checkContext) driftLinear(name string, f *driftFit, edge float64) Check {
 	which := "after"
 	if name == "fore-drift-linear" {
@@ -214,10 +219,20 @@ func (c *checkContext) driftLinear(name string, f *driftFit, edge float64) Check
 	}
 	c2, u2 := checkCurvature(f.t, f.resid)
 	u := u2 * f.infl
-	z := c2 / u
 	// The curvature's effect at the period's edge next to the main period.
 	h := math.Max(edge-f.c, f.c-edge)
 	effect := c2 * h * h
+	if !(u > 0) {
+		if periodFlat(f.y) {
+			return Check{name, Pass, fmt.Sprintf("%s period is flat (%s, all %.6g K): no noise to judge a curvature against", which, riseReadings(f.n), f.y[0])}
+		}
+		d := fmt.Sprintf("%s drift has no residual noise to judge a curvature against; its curvature beyond Newton's law %.2g K/s² gives %s over the period", which, c2, checkK(effect))
+		if math.Abs(effect) > c.sigma {
+			return Check{name, Warn, d + fmt.Sprintf(", more than the reading noise %s: not linear in θ", checkK(c.sigma))}
+		}
+		return Check{name, Pass, d + fmt.Sprintf(", within the reading noise %s", checkK(c.sigma))}
+	}
+	z := c2 / u
 	d := fmt.Sprintf("%s drift curvature beyond Newton's law %.2g K/s² (z = %.1f, %s over the period)", which, c2, z, checkK(effect))
 	if math.Abs(z) > c.lim.MaxCurvatureZ {
 		return Check{name, Warn, d + fmt.Sprintf(": not linear in θ (limit |z| %.3g); heat may still be entering or the period holds part of the main period", c.lim.MaxCurvatureZ)}
