@@ -121,6 +121,7 @@ func (l CheckLimits) withDefaults() CheckLimits {
 // checkContext carries what the checks look at.
 type checkContext struct {
 	res         *Rise
+	times       []float64 // the caller's times (s), which Rise.Excluded indexes
 	lim         CheckLimits
 	fore, after *driftFit
 	model       modelResult
@@ -178,13 +179,13 @@ func (c *checkContext) periodLength(name, which string, f *driftFit, minS float6
 	dur := f.tEnd - f.tStart
 	switch {
 	case f.n < 5:
-		return Check{name, Fail, fmt.Sprintf("%s period has %d readings; fewer than 5 cannot show its drift and noise", which, f.n)}
+		return Check{name, Fail, fmt.Sprintf("%s period has %s; fewer than 5 cannot show its drift and noise", which, riseReadings(f.n))}
 	case dur < minS:
 		return Check{name, Warn, fmt.Sprintf("%s period %.0f s is shorter than the %.0f s needed for %s", which, dur, minS, need)}
 	case f.n < c.lim.MinPoints:
-		return Check{name, Warn, fmt.Sprintf("%s period has %d readings, fewer than the %d needed for %s", which, f.n, c.lim.MinPoints, need)}
+		return Check{name, Warn, fmt.Sprintf("%s period has %s, fewer than the %d needed for %s", which, riseReadings(f.n), c.lim.MinPoints, need)}
 	}
-	return Check{name, Pass, fmt.Sprintf("%s period %.0f s with %d readings", which, dur, f.n)}
+	return Check{name, Pass, fmt.Sprintf("%s period %.0f s with %s", which, dur, riseReadings(f.n))}
 }
 
 func (c *checkContext) driftFit(name, which string, f *driftFit) Check {
@@ -203,20 +204,35 @@ func (c *checkContext) driftFit(name, which string, f *driftFit) Check {
 // Newton's law gives it: a quadratic fitted to the residuals against the
 // period's Newtonian curve must have a second-order coefficient within
 // MaxCurvatureZ standard uncertainties (inflated for autocorrelation) of 0.
+//
+// A period whose residuals have no scatter at all (readings that never
+// change, or lie exactly on the curve) leaves no noise to judge the
+// curvature against: a flat period passes, and otherwise the curvature's
+// effect over the period is compared with the reading noise instead.
 func (c *checkContext) driftLinear(name string, f *driftFit, edge float64) Check {
 	which := "after"
 	if name == "fore-drift-linear" {
 		which = "fore"
 	}
 	if f.n < 6 {
-		return Check{name, Warn, fmt.Sprintf("%s period has %d readings, too few to test that its drift is linear in θ", which, f.n)}
+		return Check{name, Warn, fmt.Sprintf("%s period has %s, too few to test that its drift is linear in θ", which, riseReadings(f.n))}
 	}
 	c2, u2 := checkCurvature(f.t, f.resid)
 	u := u2 * f.infl
-	z := c2 / u
 	// The curvature's effect at the period's edge next to the main period.
 	h := math.Max(edge-f.c, f.c-edge)
 	effect := c2 * h * h
+	if !(u > 0) {
+		if periodFlat(f.y) {
+			return Check{name, Pass, fmt.Sprintf("%s period is flat (%s, all %.6g K): no noise to judge a curvature against", which, riseReadings(f.n), f.y[0])}
+		}
+		d := fmt.Sprintf("%s drift has no residual noise to judge a curvature against; its curvature beyond Newton's law %.2g K/s² gives %s over the period", which, c2, checkK(effect))
+		if math.Abs(effect) > c.sigma {
+			return Check{name, Warn, d + fmt.Sprintf(", more than the reading noise %s: not linear in θ", checkK(c.sigma))}
+		}
+		return Check{name, Pass, d + fmt.Sprintf(", within the reading noise %s", checkK(c.sigma))}
+	}
+	z := c2 / u
 	d := fmt.Sprintf("%s drift curvature beyond Newton's law %.2g K/s² (z = %.1f, %s over the period)", which, c2, z, checkK(effect))
 	if math.Abs(z) > c.lim.MaxCurvatureZ {
 		return Check{name, Warn, d + fmt.Sprintf(": not linear in θ (limit |z| %.3g); heat may still be entering or the period holds part of the main period", c.lim.MaxCurvatureZ)}
@@ -235,9 +251,13 @@ func (c *checkContext) spikes() Check {
 			at = append(at, "…")
 			break
 		}
-		at = append(at, fmt.Sprintf("%d", k))
+		at = append(at, fmt.Sprintf("%.6g s", c.times[k]))
 	}
-	return Check{"spikes", Warn, fmt.Sprintf("%d reading(s) excluded as spikes beyond robust z %.3g (index %s)", len(ex), c.lim.SpikeZ, strings.Join(at, ", "))}
+	what := riseReadings(len(ex)) + " excluded as spikes"
+	if len(ex) == 1 {
+		what = "1 reading excluded as a spike"
+	}
+	return Check{"spikes", Warn, fmt.Sprintf("%s beyond robust z %.3g (at %s)", what, c.lim.SpikeZ, strings.Join(at, ", "))}
 }
 
 func (c *checkContext) resolution() Check {

@@ -102,14 +102,14 @@ func TestChecksFire(t *testing.T) {
 			s.SpikeAdd = 0.005 // 33 noise SDs
 			t, y, _ := s.Run()
 			return t, y
-		}, RiseOptions{}, "spikes", Warn, "2 reading(s) excluded as spikes beyond robust z 6 (index 75, 450)"},
+		}, RiseOptions{}, "spikes", Warn, "2 readings excluded as spikes beyond robust z 6 (at 150 s, 900 s)"}, // spikes put at 150 s and 900 s
 		{"spike in the rise", func() ([]float64, []float64) {
 			s := precisionRun(33)
 			s.Spikes = []float64{330}
 			s.SpikeAdd = 0.05
 			t, y, _ := s.Run()
 			return t, y
-		}, RiseOptions{}, "spikes", Warn, "(index 165)"},
+		}, RiseOptions{}, "spikes", Warn, "1 reading excluded as a spike beyond robust z 6 (at 330 s)"},
 		{"stuck on a coarse resolution", func() ([]float64, []float64) {
 			s := cupRun(34)
 			s.Quantum, s.Noise = 0.05, 0.003

@@ -52,9 +52,11 @@ type Drift struct {
 	USlope            float64 `json:"u_slope_k_per_s"`
 	UIntercept        float64 `json:"u_intercept_k"`
 	CovSlopeIntercept float64 `json:"cov_slope_intercept_k2_per_s"`
-	// Lag1 is the lag-1 autocorrelation of the residuals as measured;
-	// Inflation = √((1+ρ)/(1−ρ)) with ρ = Lag1 corrected for its small-sample
-	// bias and kept in [0, 0.95].
+	// Lag1 is the lag-1 autocorrelation of the residuals as measured, 0
+	// when the residuals do not vary at all (a flat period: there is no
+	// correlation to measure, and none is used); Inflation = √((1+ρ)/(1−ρ))
+	// with ρ = Lag1 corrected for its small-sample bias and kept in [0,
+	// 0.95] (ρ = 0 and Inflation 1 for residuals that do not vary).
 	Lag1      float64 `json:"lag1_autocorrelation"`
 	Inflation float64 `json:"inflation"`
 	Start     float64 `json:"start_s"` // first reading used (s)
@@ -248,8 +250,13 @@ func (f *driftFit) finish(G float64) {
 		ss += f.resid[k] * f.resid[k]
 	}
 	f.sd = math.Sqrt(ss / float64(f.n-2))
-	f.lag1 = fit.Lag1Autocorrelation(f.resid)
-	f.rho = driftRho(f.lag1, f.n)
+	r1 := fit.Lag1Autocorrelation(f.resid)
+	f.rho = driftRho(r1, f.n)
+	if math.IsNaN(r1) {
+		// 0/0: residuals that do not vary have no correlation to measure.
+		r1 = 0
+	}
+	f.lag1 = r1
 	f.infl = math.Sqrt((1 + f.rho) / (1 - f.rho))
 }
 

@@ -119,6 +119,12 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 	}
 	bins := periodBins(t[pl.iStart:pl.iEnd], y[pl.iStart:pl.iEnd], pl.iStart)
 
+	// A log whose readings never change holds no process to look for.
+	if math.IsNaN(opt.MixTime) && periodFlat(y[pl.iStart:pl.iEnd]) {
+		return pl, fmt.Errorf("%w: the temperature does not change at all (%s of %.6g K from %.4g s to %.4g s), so the log holds no process",
+			ErrNoProcess, riseReadings(pl.iEnd-pl.iStart), y[pl.iStart], t[pl.iStart], t[pl.iEnd-1])
+	}
+
 	// The local slopes and the process they show.
 	peak, err := periodPeak(bins, periodNoise(bins.t, bins.y))
 	if err != nil && math.IsNaN(opt.MixTime) {
@@ -148,8 +154,8 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		}
 	}
 	if pl.iF-pl.iStart < 3 {
-		return pl, fmt.Errorf("fore period: %w: %d readings before the mixing time %.4g s, need at least 3",
-			ErrTooFewReadings, pl.iF-pl.iStart, pl.tm)
+		return pl, fmt.Errorf("fore period: %w: %s before the mixing time %.4g s, need at least 3",
+			ErrTooFewReadings, riseReadings(pl.iF-pl.iStart), pl.tm)
 	}
 
 	// After period.
@@ -163,13 +169,26 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 		}
 	}
 	if pl.iEnd-pl.iP < 3 {
-		return pl, fmt.Errorf("after period: %w: %d readings after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
-			ErrTooFewReadings, pl.iEnd-pl.iP, pl.t2)
+		return pl, fmt.Errorf("after period: %w: %s after %.4g s, need at least 3 (the temperature may still be changing at the end of the log)",
+			ErrTooFewReadings, riseReadings(pl.iEnd-pl.iP), pl.t2)
 	}
 	if !(pl.t1 < pl.t2) {
 		return pl, fmt.Errorf("main period: starts at %.4g s but ends at %.4g s", pl.t1, pl.t2)
 	}
 	return pl, nil
+}
+
+// periodFlat reports whether the readings y never change: their range is
+// within float rounding (1e-12 of their size, as riseQuantum allows).
+func periodFlat(y []float64) bool {
+	if len(y) == 0 {
+		return false
+	}
+	lo, hi := y[0], y[0]
+	for _, v := range y {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return hi-lo <= 1e-12*math.Max(math.Abs(lo), math.Abs(hi))
 }
 
 // sort0 returns the index of the first t ≥ v.
@@ -343,8 +362,8 @@ func periodMixTime(d *riseData, b periodSeries, pk periodPeakInfo, pre *Period, 
 		iF = b.hi[j]
 	}
 	if iF-iStart < 3 {
-		return 0, 0, fmt.Errorf("fore period: %w: the process starts near %.4g s, leaving %d readings before it",
-			ErrTooFewReadings, t[min(iF, len(t)-1)], iF-iStart)
+		return 0, 0, fmt.Errorf("fore period: %w: the process starts near %.4g s, leaving %s before it",
+			ErrTooFewReadings, t[min(iF, len(t)-1)], riseReadings(iF-iStart))
 	}
 	base, sd, err := periodBaseline(t[iStart:iF], y[iStart:iF])
 	if err != nil {

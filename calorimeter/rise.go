@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"calred/fit"
 )
@@ -457,7 +458,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 	}
 
 	// Checks that the choice depends on.
-	cc := &checkContext{res: res, lim: lim, fore: fore, after: after, model: mfit, modelOK: modelOK,
+	cc := &checkContext{res: res, times: t, lim: lim, fore: fore, after: after, model: mfit, modelOK: modelOK,
 		sigma: sigma, dt: dt, quantum: quantum}
 	afterLinear := cc.driftLinear("after-drift-linear", after, pl.t2)
 	foreLinear := cc.driftLinear("fore-drift-linear", fore, pl.t1)
@@ -470,7 +471,7 @@ func AnalyseRise(t, theta []float64, opt RiseOptions) (*Rise, error) {
 		switch {
 		case afterLong && afterLinear.Status == Pass:
 			method = MethodRegnaultPfaundler
-			res.MethodReason = fmt.Sprintf("auto: the after period (%.0f s, %d readings) is long enough and its drift is linear in θ", after.tEnd-after.tStart, after.n)
+			res.MethodReason = fmt.Sprintf("auto: the after period (%.0f s, %s) is long enough and its drift is linear in θ", after.tEnd-after.tStart, riseReadings(after.n))
 		case modelOK:
 			method = MethodModel
 			why := "too short"
@@ -617,7 +618,7 @@ func riseValidate(t, theta []float64, opt *RiseOptions) error {
 	case len(theta) != n:
 		return bad("%d times but %d temperatures", n, len(theta))
 	case n < riseMinPoints:
-		return bad("%d readings, need at least %d (three for each drift period and a main period)", n, riseMinPoints)
+		return bad("%s, need at least %d (three for each drift period and a main period)", riseReadings(n), riseMinPoints)
 	}
 	for k := range t {
 		if math.IsNaN(t[k]) || math.IsInf(t[k], 0) {
@@ -681,6 +682,14 @@ func riseValidate(t, theta []float64, opt *RiseOptions) error {
 		return bad("probe correlation %g is outside [0, 1]", opt.ProbeCorrelation)
 	}
 	return nil
+}
+
+// riseReadings is "1 reading" or "n readings", for messages.
+func riseReadings(n int) string {
+	if n == 1 {
+		return "1 reading"
+	}
+	return strconv.Itoa(n) + " readings"
 }
 
 // riseQuantum detects the resolution of the readings: the smallest non-zero

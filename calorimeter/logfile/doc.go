@@ -97,7 +97,8 @@
 // cell that is not a number, clock time or timestamp as its column needs, a
 // wrong number of fields, an unclosed quote, a time earlier than the
 // reading before (equal times are kept and listed by Summarise), a
-// temperature below 0 K, a unit that is not understood, a file without
+// temperature below 0 K or above 10 000 K (no calorimeter reads that: a
+// wrong unit or a corrupt cell), a unit that is not understood, a file without
 // readings. I/O errors come wrapped in a *ParseError too. Only errors in
 // Options themselves (see Options.Validate) are plain errors.
 package logfile

@@ -142,6 +142,11 @@ const (
 	clockTurnover  = 12 * 3600.0
 	secondsPerDay  = 24 * 3600.0
 	zeroCelsiusInK = 273.15 // ITS-90: 0 °C = 273.15 K exactly, by definition of the Celsius scale
+	// maxTemperatureK is the highest temperature a reading may have: far
+	// above anything a solution calorimeter's probe reads (water's critical
+	// point is 647.096 K, IAPWS-95) yet clear of every real log, so that
+	// only a wrong unit or a corrupt cell is refused. Our own limit.
+	maxTemperatureK = 10000
 )
 
 // Read reads a temperature log. It sniffs the dialect from the first few
@@ -449,11 +454,17 @@ func (rd *reader) parseTemperature(num int, s string) (float64, error) {
 		return 0, rd.errf(num, col, "temperature %s", rd.notNumber(s))
 	}
 	k := toKelvin(v, rd.tempUnit)
-	if !(k >= 0) || math.IsInf(k, 0) {
+	if k > maxTemperatureK {
+		if rd.tempUnit == "K" {
+			return 0, rd.errf(num, col, "temperature %s K is above %g K, hotter than any calorimeter reads", s, float64(maxTemperatureK))
+		}
+		return 0, rd.errf(num, col, "temperature %s %s is %s K, above %g K, hotter than any calorimeter reads", s, unitSymbol(rd.tempUnit), messageNumber(k, 6), float64(maxTemperatureK))
+	}
+	if !(k >= 0) {
 		if rd.tempUnit == "K" {
 			return 0, rd.errf(num, col, "temperature %s K is below absolute zero", s)
 		}
-		return 0, rd.errf(num, col, "temperature %s %s is %s K, below absolute zero", s, unitSymbol(rd.tempUnit), formatNumber(k, 6))
+		return 0, rd.errf(num, col, "temperature %s %s is %s K, below absolute zero", s, unitSymbol(rd.tempUnit), messageNumber(k, 6))
 	}
 	return k, nil
 }
@@ -525,7 +536,7 @@ func (rd *reader) elapsed(num int, s string, tv timeValue) (float64, error) {
 		return 0, rd.errf(num, rd.timeAt+1, "time %q is out of range", s)
 	}
 	if rd.started && t < rd.prev-timeTolerance(rd.prev) {
-		return 0, rd.errf(num, rd.timeAt+1, "time %q is %s s before the reading on line %d", s, formatNumber(rd.prev-t, 3), rd.prevLine)
+		return 0, rd.errf(num, rd.timeAt+1, "time %q is %s s before the reading on line %d", s, messageNumber(rd.prev-t, 3), rd.prevLine)
 	}
 	rd.started = true
 	rd.prev, rd.prevLine = t, num
@@ -543,7 +554,12 @@ func (rd *reader) finish() (*Log, error) {
 		return nil, rd.errf(0, 0, "no readings")
 	}
 	if rd.blanks > listedBlanks {
-		rd.warnf(0, "%d more readings skipped for blank cells (not listed)", rd.blanks-listedBlanks)
+		more := rd.blanks - listedBlanks
+		word := "readings"
+		if more == 1 {
+			word = "reading"
+		}
+		rd.warnf(0, "%d more %s skipped for blank cells (not listed)", more, word)
 	}
 	for i, at := range rd.extra {
 		l.Extra[rd.cols[at].Name] = rd.xvals[i]
@@ -556,8 +572,13 @@ func (rd *reader) finish() (*Log, error) {
 	return l, nil
 }
 
-// formatNumber formats x with at most the given decimals, trailing zeros dropped.
+// formatNumber formats x with at most the given decimals, trailing zeros
+// dropped; from 10¹⁵ up, where that would run to many digits, as %g with 6
+// significant digits (1e+300).
 func formatNumber(x float64, decimals int) string {
+	if math.Abs(x) >= 1e15 {
+		return strconv.FormatFloat(x, 'g', 6, 64)
+	}
 	s := strconv.FormatFloat(x, 'f', decimals, 64)
 	if strings.IndexByte(s, '.') >= 0 {
 		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
@@ -566,4 +587,13 @@ func formatNumber(x float64, decimals int) string {
 		s = "0"
 	}
 	return s
+}
+
+// messageNumber formats x for an error message: as formatNumber, and as %g
+// with 6 significant digits where the decimals would round it to 0.
+func messageNumber(x float64, decimals int) string {
+	if a := math.Abs(x); a > 0 && a < 0.5*math.Pow(10, -float64(decimals)) {
+		return strconv.FormatFloat(x, 'g', 6, 64)
+	}
+	return formatNumber(x, decimals)
 }
