@@ -108,7 +108,7 @@ type driftFit struct {
 func newDriftFit(t, y []float64) (*driftFit, error) {
 	n := len(t)
 	if n < 3 {
-		return nil, fmt.Errorf("drift fit: %w: %d readings, need at least 3", ErrTooFewReadings, n)
+		return nil, fmt.Errorf("drift fit: %w: %s, need at least 3", ErrTooFewReadings, riseReadings(n))
 	}
 	f := &driftFit{t: t, y: y, n: n, tStart: t[0], tEnd: t[n-1]}
 	var st, sy float64

@@ -163,8 +163,8 @@ func heaterIntegrate(t, p []float64, first, last int, threshold float64) (Heater
 		ts, ps = append(ts, t[last+1]), append(ps, heaterBlankOff(p[last+1]))
 	}
 	if n < heaterMinReadings {
-		return hp, fmt.Errorf("%w: the heater is on for only %d reading(s) at %g s; a heating period needs at least %d",
-			ErrHeaterColumn, n, t[first], heaterMinReadings)
+		return hp, fmt.Errorf("%w: the heater is on for only %s at %g s; a heating period needs at least %d",
+			ErrHeaterColumn, riseReadings(n), t[first], heaterMinReadings)
 	}
 	var q float64
 	for k := 1; k < len(ts); k++ {

@@ -47,6 +47,10 @@ func riseJSONNumber(v float64) string {
 // break, heater) can be found in the log.
 var ErrNoProcess = errors.New("no process found")
 
+// ErrNoChange is the ErrNoProcess of a log whose readings never change (a
+// probe out of the vessel, the wrong file); errors.Is matches both.
+var ErrNoChange = fmt.Errorf("%w: the temperature does not change at all", ErrNoProcess)
+
 // periodPlan is the outcome of period detection.
 type periodPlan struct {
 	tm, tmU    float64 // mixing time and how sure its detection is (s)
@@ -121,8 +125,8 @@ func periodDetect(d *riseData, opt RiseOptions, lim CheckLimits) (periodPlan, er
 
 	// A log whose readings never change holds no process to look for.
 	if math.IsNaN(opt.MixTime) && periodFlat(y[pl.iStart:pl.iEnd]) {
-		return pl, fmt.Errorf("%w: the temperature does not change at all (%s of %.6g K from %.4g s to %.4g s), so the log holds no process",
-			ErrNoProcess, riseReadings(pl.iEnd-pl.iStart), y[pl.iStart], t[pl.iStart], t[pl.iEnd-1])
+		return pl, fmt.Errorf("%w (%s of %.6g K from %.4g s to %.4g s), so the log holds no process",
+			ErrNoChange, riseReadings(pl.iEnd-pl.iStart), y[pl.iStart], t[pl.iStart], t[pl.iEnd-1])
 	}
 
 	// The local slopes and the process they show.

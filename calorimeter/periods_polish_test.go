@@ -31,8 +31,8 @@ func TestAnalyseRiseFlatLog(t *testing.T) {
 				y[k] = tc.value
 			}
 			_, err := AnalyseRise(tt, y, RiseOptions{})
-			if !errors.Is(err, ErrNoProcess) {
-				t.Fatalf("err = %v, want ErrNoProcess", err)
+			if !errors.Is(err, ErrNoProcess) || !errors.Is(err, ErrNoChange) {
+				t.Fatalf("err = %v, want ErrNoChange (an ErrNoProcess)", err)
 			}
 			if !strings.Contains(err.Error(), tc.want) || strings.Contains(err.Error(), "already changing") {
 				t.Errorf("err = %q, want it to contain %q", err, tc.want)

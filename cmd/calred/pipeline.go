@@ -316,6 +316,9 @@ func riseHint(s *spec, err error) string {
 			given = append(given, fmt.Sprintf("--%s %s", n, s.text(n)))
 		}
 	}
+	if errors.Is(err, calorimeter.ErrNoChange) {
+		return "check that this is the run's log and that the probe was in the vessel (`calred inspect` shows the temperature range)"
+	}
 	if len(given) == 0 {
 		return "look at the log with `calred inspect`, or give the mixing time with --mix-time (s from the first reading)"
 	}
