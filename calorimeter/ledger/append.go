@@ -43,7 +43,8 @@ var appendMu sync.Mutex
 
 // Append appends rows to the ledger at path and returns them as written:
 // RecordedAt set (a zero RecordedAt becomes the time of the call, UTC),
-// PrevHash, Hash and Line filled in.
+// MeasuredAt in UTC (a zero MeasuredAt stays zero: not known), PrevHash,
+// Hash and Line filled in.
 //
 // Append holds an exclusive lock on the file path+".lock" (created beside
 // the ledger and left there) while it reads the ledger and writes. It
@@ -54,7 +55,8 @@ var appendMu sync.Mutex
 //     points to `calred ledger verify`);
 //   - a row in the file does not parse (*VerifyError);
 //   - a new row breaks the rules below or holds a value the file cannot
-//     (a line break, an infinite number, an unknown kind or status):
+//     (a line break, an infinite number, an unknown kind or status, a
+//     year outside 0 to 9999):
 //     *RowError.
 //
 // Append does not recompute the hashes of the rows already there; Verify
@@ -81,6 +83,9 @@ func Append(path string, rows ...Row) ([]Row, error) {
 			r.RecordedAt = now
 		}
 		r.RecordedAt = r.RecordedAt.UTC()
+		if !r.MeasuredAt.IsZero() {
+			r.MeasuredAt = r.MeasuredAt.UTC()
+		}
 		if col, why := r.check(); col >= 0 {
 			return nil, fmt.Errorf("append to ledger %s: %w", path,
 				&RowError{Index: i, RunID: r.RunID, Column: header[col], Reason: ReasonInvalidCell, Detail: why})

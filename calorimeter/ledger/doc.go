@@ -10,8 +10,9 @@
 // cell is quoted. Text cells may not hold line breaks. The first line is the
 // header, Header joined by commas, and never changes within a version:
 //
-//	ledger_version,recorded_at_utc,run_id,kind,sample_id,operator,formula,method,
-//	delta_t_k,u_delta_t_k,heat_capacity_j_per_k,u_heat_capacity_j_per_k,
+//	ledger_version,recorded_at_utc,measured_at_utc,run_id,kind,sample_id,
+//	operator,formula,method,delta_t_k,u_delta_t_k,
+//	heat_capacity_j_per_k,u_heat_capacity_j_per_k,
 //	molar_enthalpy_kj_per_mol,u_molar_enthalpy_kj_per_mol,
 //	expanded_uncertainty_kj_per_mol,coverage_factor,molality_mol_per_kg,
 //	status,checks,input_file,input_sha256,calibration,program_version,note,
@@ -20,10 +21,20 @@
 // (shown here on several lines; in the file it is one). Units are in the
 // names: K, J/K, kJ/mol, mol/kg; coverage_factor is dimensionless.
 //
-//   - ledger_version is Version (1) in every row.
+//   - ledger_version is Version (1) in every row. The format is not yet
+//     released: columns added before the first release, measured_at_utc
+//     among them, keep version 1, since no ledger of an earlier layout
+//     exists outside this project's tests. From the first release on, a
+//     changed header gives a new version.
 //   - recorded_at_utc is the time of the append, RFC 3339 in UTC with
 //     fractional seconds as needed (time.RFC3339Nano), e.g.
 //     2026-03-02T09:41:07.318Z.
+//   - measured_at_utc is when the run was measured, in the same form: the
+//     time of the log's first reading (or of the heating period's, for one
+//     of several in a log) when the log gives a date, empty when it does not
+//     (elapsed seconds, clock times without a date). Runs reduced together
+//     long after they were measured share a recorded_at_utc but keep their
+//     own measured_at_utc. Filter.Since looks at recorded_at_utc.
 //   - Numbers are written by strconv.FormatFloat(x, 'g', -1, 64), the
 //     shortest form that reads back to the same float64; an empty cell is
 //     "not applicable" (NaN in Row).
@@ -106,7 +117,8 @@
 // (attributable, legible, contemporaneous, original, accurate; complete,
 // consistent, enduring, available) as follows: who ran the reduction
 // (operator) and with what (program_version, calibration); plain text any
-// CSV reader opens; the time is taken when the row is written; the raw log
+// CSV reader opens; the time is taken when the row is written, beside the
+// time of measurement the log gives; the raw log
 // is named by its SHA-256; numbers are stored so that they read back
 // exactly; failures are recorded as well as passes and corrections are new
 // rows with their reason; one fixed header per version; every append is

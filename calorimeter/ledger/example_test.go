@@ -15,6 +15,7 @@ import (
 func ammoniumNitrateRun() ledger.Row {
 	r := ledger.NewRow() // every number empty until set
 	r.RecordedAt = time.Date(2026, 3, 2, 10, 15, 30, 500e6, time.UTC)
+	r.MeasuredAt = time.Date(2026, 3, 2, 9, 48, 12, 0, time.UTC) // the log's first reading
 	r.RunID, r.Kind, r.SampleID = "an-014", "sample", "NH4NO3-B2"
 	r.Operator, r.Formula, r.Method = "T. Lindqvist", "NH4NO3", "dickinson"
 	r.DeltaTK, r.UDeltaTK = -0.8412, 0.0042
@@ -74,16 +75,16 @@ func ExampleAppend() {
 	ledger.WriteTable(os.Stdout, rows, rep.Superseded)
 	// The hashes were recomputed from the same two rows, written to a file
 	// by Append, with Python 3.11's hashlib through the recipe of doc.go
-	// (python3 recipe.py ledger.csv → "2 rows, last hash d58057120514…";
-	// line 3's prev_hash cell begins 92b2fa9bec86).
+	// (python3 recipe.py ledger.csv → "2 rows, last hash 4caf3719d87c…";
+	// line 3's prev_hash cell begins 0c086b3c5494).
 
 	// Output:
-	// line 3 chained to 92b2fa9bec86
+	// line 3 chained to 0c086b3c5494
 	// true
-	// 2 rows; last hash d58057120514
-	// line  recorded (UTC)       run     kind    sample     status  ΔT/K     C/(J/K)  ΔsolH/(kJ/mol)  U/(kJ/mol)  k     replaced by
-	// 2     2026-03-02 10:15:30  an-014  sample  NH4NO3-B2  pass    -0.8412  452.71   25.61           0.33        2.05  an-014
-	// 3     2026-03-02 10:35:30  an-014  sample  NH4NO3-B2  pass    -0.8412  452.71   25.68           0.33        2.05
+	// 2 rows; last hash 4caf3719d87c
+	// line  recorded (UTC)       measured (UTC)       run     kind    sample     status  ΔT/K     C/(J/K)  ΔsolH/(kJ/mol)  U/(kJ/mol)  k     replaced by
+	// 2     2026-03-02 10:15:30  2026-03-02 09:48:12  an-014  sample  NH4NO3-B2  pass    -0.8412  452.71   25.61           0.33        2.05  an-014
+	// 3     2026-03-02 10:35:30  2026-03-02 09:48:12  an-014  sample  NH4NO3-B2  pass    -0.8412  452.71   25.68           0.33        2.05
 }
 
 func ExampleVerify() {

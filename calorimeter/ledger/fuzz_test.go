@@ -9,12 +9,14 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 )
 
 func FuzzRead(f *testing.F) {
 	rows := sampleRows(3)
 	rows[1].Note = `lid "B", stirrer 300 rpm`
 	rows[1].Operator = "=SUM(A1)"
+	rows[1].MeasuredAt = testT0.Add(-20 * time.Hour)
 	rows[2].Kind, rows[2].Supersedes, rows[2].RunID = "calibration", rows[0].RunID, rows[0].RunID
 	data := readFile(f, newLedger(f, rows...))
 	f.Add(data)
@@ -24,6 +26,7 @@ func FuzzRead(f *testing.F) {
 	f.Add([]byte(""))
 	f.Add([]byte(headerLine + "\n\n"))
 	f.Add([]byte(headerLine + "\n1,2026-03-02T09:00:00Z,a,sample,,,,,,,,,,,,,,pass,,,,,,,,x,y\n"))
+	f.Add([]byte(headerLine + "\n1,2026-03-02T09:00:00Z,2026-03-01T17:42:07.5Z,a,sample,,,,,,,,,,,,,,pass,,,,,,,,x,y\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		rows, err := Read(bytes.NewReader(data), "fuzz.csv")
 		if err != nil {

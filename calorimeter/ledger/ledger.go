@@ -12,14 +12,17 @@ import (
 )
 
 // Version is the ledger format version. It is written in the
-// ledger_version column of every row; a change to the header or to the
-// hash rule gives a new version.
+// ledger_version column of every row; from the first release on, a change
+// to the header or to the hash rule gives a new version. Before it the
+// format is still settling and stays at 1 (measured_at_utc was added so):
+// no ledger of an earlier layout exists outside this project's tests.
 const Version = 1
 
 // Row is one reduced run. Float fields use NaN for "empty" (an empty cell in
 // the file).
 type Row struct {
 	RecordedAt time.Time // when the row was appended, UTC; RFC 3339 with fractional seconds in the file
+	MeasuredAt time.Time // when the run was measured (its first reading), UTC as RecordedAt; zero when unknown (an empty cell)
 
 	RunID    string // names the run; unique in the ledger except for corrections, see Append
 	Kind     string // "sample" or "calibration"
@@ -72,6 +75,7 @@ func NewRow() Row {
 const (
 	colVersion = iota
 	colRecordedAt
+	colMeasuredAt
 	colRunID
 	colKind
 	colSampleID
@@ -103,6 +107,7 @@ const (
 var header = [numColumns]string{
 	colVersion:        "ledger_version",
 	colRecordedAt:     "recorded_at_utc",
+	colMeasuredAt:     "measured_at_utc",
 	colRunID:          "run_id",
 	colKind:           "kind",
 	colSampleID:       "sample_id",
@@ -219,6 +224,9 @@ func (r *Row) cells() []string {
 	c := make([]string, numColumns)
 	c[colVersion] = strconv.Itoa(Version)
 	c[colRecordedAt] = r.RecordedAt.UTC().Format(time.RFC3339Nano)
+	if !r.MeasuredAt.IsZero() {
+		c[colMeasuredAt] = r.MeasuredAt.UTC().Format(time.RFC3339Nano)
+	}
 	for _, col := range textColumns {
 		c[col] = SafeCell(*r.textField(col))
 	}
@@ -250,6 +258,14 @@ func (r *Row) check() (col int, why string) {
 	}
 	if !oneOf(r.Status, statuses) {
 		return colStatus, fmt.Sprintf("%q is not one of %s", clip(r.Status), strings.Join(statuses, ", "))
+	}
+	for _, f := range []struct {
+		col int
+		t   time.Time
+	}{{colRecordedAt, r.RecordedAt}, {colMeasuredAt, r.MeasuredAt}} {
+		if y := f.t.UTC().Year(); y < 0 || y > 9999 {
+			return f.col, fmt.Sprintf("year %d is outside 0 to 9999, the four-digit years of RFC 3339", y)
+		}
 	}
 	if r.InputSHA256 != "" && !isHash(r.InputSHA256) {
 		return colInputSHA256, fmt.Sprintf("%q is not 64 lower-case hexadecimal digits", clip(r.InputSHA256))

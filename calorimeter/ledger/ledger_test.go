@@ -99,6 +99,9 @@ func rowDiff(a, b Row) string {
 	if !a.RecordedAt.Equal(b.RecordedAt) {
 		return fmt.Sprintf("recorded_at %v != %v", a.RecordedAt, b.RecordedAt)
 	}
+	if !a.MeasuredAt.Equal(b.MeasuredAt) || a.MeasuredAt.IsZero() != b.MeasuredAt.IsZero() {
+		return fmt.Sprintf("measured_at %v != %v", a.MeasuredAt, b.MeasuredAt)
+	}
 	for _, col := range textColumns {
 		if x, y := *a.textField(col), *b.textField(col); x != y {
 			return fmt.Sprintf("%s %q != %q", header[col], x, y)
@@ -128,7 +131,10 @@ func TestHeader(t *testing.T) {
 		t.Errorf("Header = %v: want ledger_version first, prev_hash and row_hash last", h)
 	}
 	// The names CONTRACT.md gives to the results of reduce --json.
-	for _, name := range []string{"recorded_at_utc", "run_id", "kind", "delta_t_k", "u_delta_t_k",
+	if h[1] != "recorded_at_utc" || h[2] != "measured_at_utc" {
+		t.Errorf("Header = %v: want recorded_at_utc, then measured_at_utc, after ledger_version", h)
+	}
+	for _, name := range []string{"recorded_at_utc", "measured_at_utc", "run_id", "kind", "delta_t_k", "u_delta_t_k",
 		"heat_capacity_j_per_k", "u_heat_capacity_j_per_k", "molar_enthalpy_kj_per_mol",
 		"u_molar_enthalpy_kj_per_mol", "expanded_uncertainty_kj_per_mol", "coverage_factor",
 		"molality_mol_per_kg", "status", "input_sha256", "supersedes"} {
@@ -177,7 +183,9 @@ func TestAppendReadRoundTrip(t *testing.T) {
 	awkward.SampleID = " padded "
 	awkward.InputSHA256 = ""
 	awkward.Operator = "Zoë Ångström"
-	in := []Row{sampleRow(0), awkward}
+	// Measured the evening before, logged at UTC+1 to the nanosecond.
+	awkward.MeasuredAt = time.Date(2026, 3, 1, 18, 42, 7, 123456789, time.FixedZone("UTC+1", 3600))
+	in := []Row{sampleRow(0), awkward} // sampleRow(0) has no MeasuredAt: not known
 	path := filepath.Join(t.TempDir(), "ledger.csv")
 	written, err := Append(path, in...)
 	if err != nil {
@@ -209,6 +217,18 @@ func TestAppendReadRoundTrip(t *testing.T) {
 	}
 	if written[0].PrevHash != genesisHash || written[1].PrevHash != written[0].Hash {
 		t.Error("the rows are not chained to the header and to each other")
+	}
+	// The unknown time is an empty cell and the known one is stored in UTC:
+	// 18:42:07.123456789 at UTC+1 is 17:42:07.123456789Z.
+	lines := strings.Split(string(readFile(t, path)), "\n")
+	if want := ",2026-03-02T09:00:00.25Z,,kcl-000,"; !strings.Contains(lines[1], want) {
+		t.Errorf("line 2 = %q, want it to contain %q", lines[1], want)
+	}
+	if want := ",2026-03-01T17:42:07.123456789Z,kcl-001,"; !strings.Contains(lines[2], want) {
+		t.Errorf("line 3 = %q, want it to contain %q", lines[2], want)
+	}
+	if !got[0].MeasuredAt.IsZero() || got[1].MeasuredAt.Location() != time.UTC {
+		t.Errorf("MeasuredAt read back as %v and %v, want zero and a time in UTC", got[0].MeasuredAt, got[1].MeasuredAt)
 	}
 }
 
@@ -314,6 +334,10 @@ func TestAppendRefusesRow(t *testing.T) {
 		{"carriage return in checks", func(r *Row) { r.Checks = "a\rb" }, "checks"},
 		{"invalid UTF-8 in operator", func(r *Row) { r.Operator = "M\xffI" }, "operator"},
 		{"infinite heat capacity", func(r *Row) { r.HeatCapacityJPerK = math.Inf(1) }, "heat_capacity_j_per_k"},
+		// RFC 3339 §5.6: date-fullyear = 4DIGIT, years 0000 to 9999.
+		{"measured in year 10000", func(r *Row) { r.MeasuredAt = time.Date(10000, 1, 1, 0, 0, 0, 0, time.UTC) }, "measured_at_utc"},
+		{"measured in year -1", func(r *Row) { r.MeasuredAt = time.Date(-1, 6, 1, 0, 0, 0, 0, time.UTC) }, "measured_at_utc"},
+		{"recorded in year 10000", func(r *Row) { r.RecordedAt = time.Date(10000, 1, 1, 0, 0, 0, 0, time.UTC) }, "recorded_at_utc"},
 	}
 	path := newLedger(t, sampleRow(0))
 	before := readFile(t, path)
@@ -343,10 +367,11 @@ func TestHeaderMismatch(t *testing.T) {
 		file   string
 		detail string
 	}{
-		{"renamed column", strings.Replace(good, "sample_id", "sampleid", 1), `column 5 is "sampleid", want "sample_id"`},
-		{"missing column", strings.Replace(good, ",note", "", 1), `column 24 is "supersedes", want "note"`},
-		{"last column missing", strings.Replace(good, ",row_hash", "", 1), `has 26 columns, want 27: column 27 "row_hash" is missing`},
-		{"extra column", strings.Replace(good, "row_hash", "row_hash,signature", 1), `column 28 "signature" is extra`},
+		{"renamed column", strings.Replace(good, "sample_id", "sampleid", 1), `column 6 is "sampleid", want "sample_id"`},
+		{"missing column", strings.Replace(good, ",note", "", 1), `column 25 is "supersedes", want "note"`},
+		{"last column missing", strings.Replace(good, ",row_hash", "", 1), `has 27 columns, want 28: column 28 "row_hash" is missing`},
+		{"extra column", strings.Replace(good, "row_hash", "row_hash,signature", 1), `column 29 "signature" is extra`},
+		{"header without measured_at_utc", strings.Replace(good, ",measured_at_utc", "", 1), `column 3 is "run_id", want "measured_at_utc"`},
 		{"CRLF line end", strings.Replace(good, "\n", "\r\n", 1), "carriage return"},
 		{"byte-order mark", "\xef\xbb\xbf" + good, "byte-order mark"},
 		{"quoted cells", `"` + strings.ReplaceAll(headerLine, ",", `","`) + "\"\n", "quoted"},
@@ -433,6 +458,11 @@ func TestReadRefusesCell(t *testing.T) {
 		{"time without zone", set(colRecordedAt, "2026-03-02T09:00:00"), ReasonUnparseableCell, "recorded_at_utc"},
 		{"time at an offset", set(colRecordedAt, "2026-03-02T10:00:00+01:00"), ReasonUnparseableCell, "recorded_at_utc"},
 		{"time with a space", set(colRecordedAt, "2026-03-02 09:00:00Z"), ReasonUnparseableCell, "recorded_at_utc"},
+		{"empty recorded time", set(colRecordedAt, ""), ReasonUnparseableCell, "recorded_at_utc"},
+		{"measured time without zone", set(colMeasuredAt, "2026-03-01T17:42:07"), ReasonUnparseableCell, "measured_at_utc"},
+		{"measured time at an offset", set(colMeasuredAt, "2026-03-01T18:42:07+01:00"), ReasonUnparseableCell, "measured_at_utc"},
+		{"measured date only", set(colMeasuredAt, "2026-03-01"), ReasonUnparseableCell, "measured_at_utc"},
+		{"measured word", set(colMeasuredAt, "yesterday"), ReasonUnparseableCell, "measured_at_utc"},
 		{"word for a number", set(colDeltaT, "abc"), ReasonUnparseableCell, "delta_t_k"},
 		{"number with a plus sign", set(colDeltaT, "+1.5"), ReasonUnparseableCell, "delta_t_k"},
 		{"hexadecimal number", set(colDeltaT, "0x1p-2"), ReasonUnparseableCell, "delta_t_k"},

@@ -17,7 +17,7 @@ type Filter struct {
 	Kind     string    // "sample" or "calibration"
 	SampleID string    // exact sample_id
 	Status   string    // "pass", "warn" or "fail"
-	Since    time.Time // rows recorded at or after this instant
+	Since    time.Time // rows recorded (RecordedAt, not MeasuredAt) at or after this instant
 }
 
 // Match reports whether r passes every field of f that is set.
@@ -29,21 +29,23 @@ func (f Filter) Match(r Row) bool {
 }
 
 // WriteTable writes rows as an aligned text table, one line per row: line in
-// the file, time recorded, run, kind, sample, status, corrected temperature
-// change, heat capacity, molar enthalpy of solution with its expanded
-// uncertainty and coverage factor, and, for a row that a later correction
-// replaced, the run_id of that correction under "replaced by" (superseded is
-// Report.Superseded or the result of Superseded). Numbers are shown to six
-// significant digits (WriteJSONLines gives them as stored); an empty cell
-// stays empty.
+// the file, time recorded, time measured (empty when not known), run, kind,
+// sample, status, corrected temperature change, heat capacity, molar
+// enthalpy of solution with its expanded uncertainty and coverage factor,
+// and, for a row that a later correction replaced, the run_id of that
+// correction under "replaced by" (superseded is Report.Superseded or the
+// result of Superseded). Times are in UTC to the second; numbers are shown
+// to six significant digits (WriteJSONLines gives them as stored); an empty
+// cell stays empty.
 func WriteTable(w io.Writer, rows []Row, superseded map[string]string) error {
 	var buf bytes.Buffer
 	tw := tabwriter.NewWriter(&buf, 0, 0, 2, ' ', 0)
-	io.WriteString(tw, "line\trecorded (UTC)\trun\tkind\tsample\tstatus\tΔT/K\tC/(J/K)\tΔsolH/(kJ/mol)\tU/(kJ/mol)\tk\treplaced by\n")
+	io.WriteString(tw, "line\trecorded (UTC)\tmeasured (UTC)\trun\tkind\tsample\tstatus\tΔT/K\tC/(J/K)\tΔsolH/(kJ/mol)\tU/(kJ/mol)\tk\treplaced by\n")
 	for _, r := range rows {
 		cells := []string{
 			strconv.Itoa(r.Line),
 			r.RecordedAt.UTC().Format("2006-01-02 15:04:05"),
+			tableTime(r.MeasuredAt),
 			r.RunID, r.Kind, r.SampleID, r.Status,
 			tableNumber(r.DeltaTK),
 			tableNumber(r.HeatCapacityJPerK),
@@ -70,6 +72,14 @@ func WriteTable(w io.Writer, rows []Row, superseded map[string]string) error {
 	return nil
 }
 
+// tableTime shows t in UTC to the second, the zero time as an empty cell.
+func tableTime(t time.Time) string {
+	if t.IsZero() {
+		return ""
+	}
+	return t.UTC().Format("2006-01-02 15:04:05")
+}
+
 // tableNumber shows x to six significant digits, NaN as an empty cell.
 func tableNumber(x float64) string {
 	if math.IsNaN(x) {
@@ -84,8 +94,8 @@ func tableCell(s string) string {
 }
 
 // WriteJSONLines writes one JSON object per row: the header's keys in header
-// order (numbers as JSON numbers, an empty number as null, ledger_version
-// as a number), then "line" (the row's line in the file) and
+// order (numbers as JSON numbers, an empty number or an empty
+// measured_at_utc as null, ledger_version as a number), then "line" (the row's line in the file) and
 // "superseded_by" (the run_id of the correction that replaced the row, or
 // null).
 func WriteJSONLines(w io.Writer, rows []Row, superseded map[string]string) error {
@@ -112,6 +122,12 @@ func WriteJSONLines(w io.Writer, rows []Row, superseded map[string]string) error
 				bw.WriteString(strconv.Itoa(Version))
 			case colRecordedAt, colPrevHash, colRowHash:
 				writeJSON(bw, cells[col])
+			case colMeasuredAt:
+				if cells[col] == "" {
+					bw.WriteString("null")
+				} else {
+					writeJSON(bw, cells[col])
+				}
 			default:
 				writeJSON(bw, *r.textField(col))
 			}

@@ -16,7 +16,8 @@ var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
 // showLedger is an invented morning at the Larch Street lab: a calibration,
 // three KCl runs, one failed and corrected under the same run_id, one
-// corrected under a new run_id.
+// corrected under a new run_id. The calibration and the first KCl log say
+// when they were measured, days before; the third KCl log does not.
 func showLedger(t *testing.T) ([]Row, *Report) {
 	t.Helper()
 	cal := sampleRow(0)
@@ -26,10 +27,13 @@ func showLedger(t *testing.T) ([]Row, *Report) {
 	cal.ExpandedUncertaintyKJPerMol, cal.CoverageFactor, cal.MolalityMolPerKg = math.NaN(), math.NaN(), math.NaN()
 	cal.Calibration, cal.InputFile = "", "runs/cal-0302.csv"
 	cal.DeltaTK, cal.HeatCapacityJPerK = 0.6624, 452.71
+	cal.MeasuredAt = time.Date(2026, 2, 27, 16, 5, 0, 0, time.UTC)
 	failed := sampleRow(1)
 	failed.Status, failed.Checks = "fail", "fore-period:fail(drift 9.4 mK/min); spikes:pass"
+	failed.MeasuredAt = time.Date(2026, 3, 1, 10, 12, 30, 500e6, time.UTC)
 	fixed := sampleRow(2)
 	fixed.RunID, fixed.Supersedes, fixed.Note = failed.RunID, failed.RunID, "fore period re-chosen by hand"
+	fixed.MeasuredAt = failed.MeasuredAt // the same log, reduced again
 	third := sampleRow(3)
 	third.Checks = "fore-period:pass; spikes:warn(2 excluded)"
 	renamed := sampleRow(4)
@@ -79,6 +83,15 @@ func TestWriteTable(t *testing.T) {
 	col := len([]rune(lines[0][:max(0, strings.Index(lines[0], "replaced by"))]))
 	if !strings.Contains(lines[0], "replaced by") {
 		t.Fatalf("heading %q has no replaced by column", lines[0])
+	}
+	// The times as set in showLedger, to the second; line 5 has none measured.
+	for i, want := range []string{"2026-02-27 16:05:00", "2026-03-01 10:12:30", "2026-03-01 10:12:30"} {
+		if !strings.Contains(lines[i+1], "  "+want+"  ") {
+			t.Errorf("table line %q lacks measured time %s", lines[i+1], want)
+		}
+	}
+	if n := strings.Count(lines[4], "2026-"); n != 1 {
+		t.Errorf("table line %q shows %d times, want the recorded time only", lines[4], n)
 	}
 	// line in the file → what the replaced by column says
 	want := map[string]string{"2": "", "3": "kcl-001", "4": "", "5": "kcl-003b", "6": ""}
@@ -143,6 +156,10 @@ func TestWriteJSONLines(t *testing.T) {
 		}
 		if math.IsNaN(r.MolarEnthalpyKJPerMol) != (obj["molar_enthalpy_kj_per_mol"] == nil) {
 			t.Errorf("molar_enthalpy_kj_per_mol = %v for %v", obj["molar_enthalpy_kj_per_mol"], r.MolarEnthalpyKJPerMol)
+		}
+		if want := r.MeasuredAt.Format(time.RFC3339Nano); r.MeasuredAt.IsZero() && obj["measured_at_utc"] != nil ||
+			!r.MeasuredAt.IsZero() && obj["measured_at_utc"] != want {
+			t.Errorf("line %d measured_at_utc = %v, want %q (null when not known)", i+1, obj["measured_at_utc"], want)
 		}
 		by, replaced := rep.Superseded[r.Hash]
 		if replaced && obj["superseded_by"] != by || !replaced && obj["superseded_by"] != nil {

@@ -242,6 +242,13 @@ func parseRow(line []byte) (row Row, body []byte, col int, reason, detail string
 		return bad(colRecordedAt, "%q is not an RFC 3339 UTC time such as 2006-01-02T15:04:05.5Z", clip(c))
 	}
 	row.RecordedAt = t.UTC()
+	if c := cells[colMeasuredAt]; c != "" {
+		t, err := time.Parse(time.RFC3339Nano, c)
+		if err != nil || !strings.HasSuffix(c, "Z") {
+			return bad(colMeasuredAt, "%q is not empty or an RFC 3339 UTC time such as 2006-01-02T15:04:05.5Z", clip(c))
+		}
+		row.MeasuredAt = t.UTC()
+	}
 	for _, col := range textColumns {
 		c := cells[col]
 		s := UnsafeCell(c)
