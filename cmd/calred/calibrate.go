@@ -372,6 +372,9 @@ func (r *calibrationResult) record() ledger.Row {
 	run := r.run
 	row := ledger.NewRow()
 	row.RecordedAt, row.RunID, row.Kind = time.Now().UTC(), run.RunID, "calibration"
+	if len(r.t) > 0 {
+		row.MeasuredAt = r.in.measuredAt(r.t[0]) // a heating period's window starts after the log does
+	}
 	row.SampleID, row.Operator, row.Formula = s.text("sample-id"), s.text("operator"), s.text("formula")
 	row.Method, row.DeltaTK, row.UDeltaTK = run.CorrectionMethod, run.DeltaT, run.UDeltaT
 	row.HeatCapacityJPerK, row.UHeatCapacityJPerK, row.CoverageFactor = run.HeatCapacity, run.UHeatCapacity, run.Budget.K

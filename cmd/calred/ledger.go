@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"sort"
 	"strings"
 	"time"
 
@@ -152,7 +153,8 @@ func parseSince(s string) (time.Time, error) {
 
 func runLedgerChart(a *app, args []string) error {
 	fs := newFlags(a, "ledger chart", "LEDGER.csv -o FILE [flags]",
-		"Draw an individuals control chart of a recorded quantity in time order: centre line,\n"+
+		"Draw an individuals control chart of a recorded quantity in time order (by the date\n"+
+			"measured when every run has one, else by the date recorded): centre line,\n"+
 			"±2σ and ±3σ limits with σ from the average moving range / 1.128 (NIST/SEMATECH\n"+
 			"e-Handbook of Statistical Methods, §6.3.2), points that break a run rule marked and listed.")
 	output := fs.StringP("output", "o", "", "write the chart to FILE.svg, FILE.png or FILE.pdf")
@@ -199,9 +201,7 @@ func runLedgerChart(a *app, args []string) error {
 	if err != nil {
 		return err
 	}
-	var vals []float64
-	var pts []plot.ChartPoint
-	var labels []string
+	var picked []ledger.Row
 	for _, r := range rows {
 		if _, replaced := sup[r.Hash]; replaced {
 			continue
@@ -209,21 +209,25 @@ func runLedgerChart(a *app, args []string) error {
 		if r.Kind != *kind || (*sampleID != "" && r.SampleID != *sampleID) || (*formula != "" && r.Formula != *formula) {
 			continue
 		}
-		v := pick(r)
-		if math.IsNaN(v) {
-			continue
+		if !math.IsNaN(pick(r)) {
+			picked = append(picked, r)
 		}
-		vals = append(vals, v)
-		labels = append(labels, r.RunID)
-		pts = append(pts, plot.ChartPoint{Time: r.RecordedAt, Value: v, Label: r.RunID})
 	}
-	if len(vals) < 2 {
-		return dataf("%s: %d %s row(s) with a %s value; a control chart needs at least 2", filepath.Base(path), len(vals), *kind, *quantity)
+	if len(picked) < 2 {
+		return dataf("%s: %d %s row(s) with a %s value; a control chart needs at least 2", filepath.Base(path), len(picked), *kind, *quantity)
 	}
-	// Rows recorded within the hour (one batch) have no useful time axis: plot them in run order.
-	if pts[len(pts)-1].Time.Sub(pts[0].Time) < time.Hour {
-		for i := range pts {
-			pts[i].Time = time.Time{}
+	axis := chartAxis(picked)
+	vals := make([]float64, len(picked))
+	labels := make([]string, len(picked))
+	pts := make([]plot.ChartPoint, len(picked))
+	for i, r := range picked {
+		vals[i], labels[i] = pick(r), r.RunID
+		pts[i] = plot.ChartPoint{Value: vals[i], Label: r.RunID}
+		switch axis {
+		case axisMeasured:
+			pts[i].Time = r.MeasuredAt
+		case axisRecorded:
+			pts[i].Time = r.RecordedAt
 		}
 	}
 	chart, err := calorimeter.IndividualsChart(vals)
@@ -242,7 +246,44 @@ func runLedgerChart(a *app, args []string) error {
 	if err := outs.commit(); err != nil {
 		return err
 	}
-	fmt.Fprintf(a.stdout, "Control chart of %s (%s), %d runs of kind %s → %s\n", name, unit, len(vals), *kind, *output)
+	fmt.Fprintf(a.stdout, "Control chart of %s (%s), %d runs of kind %s %s → %s\n", name, unit, len(vals), *kind, axis, *output)
 	fmt.Fprintf(a.stdout, "  centre %s, σ = %s %s (moving range / 1.128)\n", units.Format(chart.Centre, chart.Sigma, unit), uText(chart.Sigma), unit)
 	return chart.Summary(a.stdout, labels)
+}
+
+// The time axes of a control chart, as the summary line names them.
+const (
+	axisMeasured = "by date measured"
+	axisRecorded = "by date recorded"
+	axisRunOrder = "in run order"
+)
+
+// chartAxis chooses the time axis of a control chart of rows and, for
+// the date measured, sorts rows by it (stable, so that a run's rows keep
+// their file order). The date measured is used when every row has one and
+// they are not all the same instant, since a laboratory often reduces
+// runs measured over weeks in one batch; otherwise the date recorded, when
+// it never goes back and spans an hour or more; otherwise the run order in
+// the file (rows recorded within the hour are one batch, and a time axis
+// would show nothing).
+func chartAxis(rows []ledger.Row) string {
+	measured := true
+	for _, r := range rows {
+		measured = measured && !r.MeasuredAt.IsZero()
+	}
+	if measured {
+		sort.SliceStable(rows, func(i, j int) bool { return rows[i].MeasuredAt.Before(rows[j].MeasuredAt) })
+		if rows[len(rows)-1].MeasuredAt.After(rows[0].MeasuredAt) {
+			return axisMeasured
+		}
+	}
+	for i := 1; i < len(rows); i++ {
+		if rows[i].RecordedAt.Before(rows[i-1].RecordedAt) {
+			return axisRunOrder
+		}
+	}
+	if rows[len(rows)-1].RecordedAt.Sub(rows[0].RecordedAt) < time.Hour {
+		return axisRunOrder
+	}
+	return axisRecorded
 }

@@ -6,6 +6,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -65,12 +66,13 @@ func TestLedgerManyProcesses(t *testing.T) {
 		t.Errorf("%d rows, want %d", rep.Rows, procs*runs)
 	}
 	b, _ := os.ReadFile(led)
+	runID := slices.Index(ledger.Header(), "run_id")
 	seen := map[string]bool{}
 	for _, line := range strings.Split(strings.TrimSuffix(string(b), "\n"), "\n")[1:] {
 		cells := strings.Split(line, ",")
-		if len(cells) < 3 || seen[cells[2]] {
+		if len(cells) <= runID || seen[cells[runID]] {
 			t.Errorf("line %q: run id missing or repeated", line)
 		}
-		seen[cells[2]] = true
+		seen[cells[runID]] = true
 	}
 }

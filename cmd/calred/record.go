@@ -131,6 +131,7 @@ func (r *sampleResult) record() ledger.Row {
 	s := r.in.spec
 	row := ledger.NewRow()
 	row.RecordedAt, row.RunID, row.Kind = time.Now().UTC(), r.in.runID, "sample"
+	row.MeasuredAt = r.in.measuredAt(0)
 	row.SampleID, row.Operator, row.Formula = s.text("sample-id"), s.text("operator"), red.Sample.Formula
 	row.Method, row.DeltaTK, row.UDeltaTK = rise.Method, rise.DeltaT, rise.UDeltaT
 	row.HeatCapacityJPerK, row.UHeatCapacityJPerK = red.HeatCapacity, red.UHeatCapacity
@@ -139,6 +140,18 @@ func (r *sampleResult) record() ledger.Row {
 	row.MolalityMolPerKg, row.Status, row.Checks = red.Molality, string(red.Status), checksSummary(red.Checks)
 	row.InputFile, row.InputSHA256, row.Calibration, row.Note = r.in.name, r.in.sha256, r.hc.Source, s.text("note")
 	return row
+}
+
+// measuredAt is when a run's readings began, elapsed seconds after the
+// log's first reading, for the ledger's measured_at_utc: zero (not known)
+// when the log gives no date, as with elapsed seconds or clock times.
+// A timestamp without a UTC offset is taken as UTC (logfile.Log.Start).
+func (ri *runInput) measuredAt(elapsed float64) time.Time {
+	start := ri.log.Start
+	if start.IsZero() || start.Year() <= 1 {
+		return time.Time{}
+	}
+	return start.Add(time.Duration(math.Round(elapsed * float64(time.Second)))).UTC()
 }
 
 // thermogram turns an analysis into the plot's data.
