@@ -190,8 +190,8 @@ func (r *sampleResult) json() map[string]any {
 		"delta_t_k":                       rise.DeltaT,
 		"u_delta_t_k":                     rise.UDeltaT,
 		"methods":                         rise.Methods,
-		"equal_area_time_s":               finiteOrNil(rise.Tx),
-		"time_60_percent_s":               finiteOrNil(rise.T60),
+		"equal_area_time_s":               rise.Tx,
+		"time_60_percent_s":               rise.T60,
 		"mean_temperature_k":              rise.MeanTemperature,
 		"heat_capacity_j_per_k":           red.HeatCapacity,
 		"u_heat_capacity_j_per_k":         red.UHeatCapacity,
@@ -204,13 +204,13 @@ func (r *sampleResult) json() map[string]any {
 		"formula":                         red.Sample.Formula,
 		"molar_mass_g_per_mol":            red.Sample.MolarMass,
 		"amount_mol":                      red.Amount,
-		"molality_mol_per_kg":             finiteOrNil(red.Molality),
-		"water_to_solute_ratio":           finiteOrNil(red.WaterRatio),
+		"molality_mol_per_kg":             red.Molality,
+		"water_to_solute_ratio":           red.WaterRatio,
 		"molar_enthalpy_kj_per_mol":       red.MolarEnthalpy,
 		"u_molar_enthalpy_kj_per_mol":     red.UMolarEnthalpy,
 		"expanded_uncertainty_kj_per_mol": red.Expanded,
 		"coverage_factor":                 red.CoverageFactor,
-		"effective_degrees_of_freedom":    finiteOrNil(red.DoF),
+		"effective_degrees_of_freedom":    red.DoF,
 		"budget":                          budgetJSON(red.Budget),
 		"checks":                          red.Checks,
 		"status":                          red.Status,
@@ -228,7 +228,7 @@ func (r *sampleResult) json() map[string]any {
 	if g := r.grade; g != nil {
 		m["grade"] = map[string]any{
 			"accepted_kj_per_mol": g.Accepted, "u_accepted_kj_per_mol": g.UAccepted,
-			"error_percent": finiteOrNil(g.ErrorPercent), "zeta_score": finiteOrNil(g.Zeta), "en_number": finiteOrNil(g.En),
+			"error_percent": g.ErrorPercent, "zeta_score": g.Zeta, "en_number": g.En,
 			"verdict": g.Verdict, "basis": g.Basis, "feedback": g.Feedback,
 		}
 	}
@@ -319,17 +319,10 @@ func budgetJSON(b *calorimeter.Budget) []map[string]any {
 		out = append(out, map[string]any{
 			"quantity": t.Quantity, "symbol": t.Symbol, "value": t.Value, "unit": t.Unit,
 			"standard_uncertainty": t.StandardUncertainty, "sensitivity": t.Sensitivity,
-			"contribution": t.Contribution, "percent": t.Percent, "dof": finiteOrNil(t.DoF),
+			"contribution": t.Contribution, "percent": t.Percent, "dof": t.DoF,
 		})
 	}
 	return out
-}
-
-func finiteOrNil(v float64) any {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return nil
-	}
-	return v
 }
 
 // writeText is the readable report of a sample run.
