@@ -4,7 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
+
+	"calred/fit"
 )
 
 // Grade compares a result x (standard uncertainty u, expanded U) with an
@@ -154,15 +155,8 @@ func AlgorithmA(values []float64) (Consensus, error) {
 	if p < 3 {
 		return Consensus{}, errors.New("robust consensus: need at least 3 results")
 	}
-	sorted := append([]float64(nil), v...)
-	sort.Float64s(sorted)
-	x := gradeMedian(sorted)
-	dev := make([]float64, p)
-	for i, y := range v {
-		dev[i] = math.Abs(y - x)
-	}
-	sort.Float64s(dev)
-	s := 1.483 * gradeMedian(dev)
+	x := fit.Median(v)
+	s := 1.483 * fit.MAD(v)
 	c := Consensus{N: p}
 	clipped := make([]float64, p)
 	for it := 1; it <= 100; it++ {
@@ -187,14 +181,6 @@ func AlgorithmA(values []float64) (Consensus, error) {
 	}
 	c.Mean, c.SD, c.U = x, s, 1.25*s/math.Sqrt(float64(p))
 	return c, nil
-}
-
-func gradeMedian(sorted []float64) float64 {
-	n := len(sorted)
-	if n%2 == 1 {
-		return sorted[n/2]
-	}
-	return (sorted[n/2-1] + sorted[n/2]) / 2
 }
 
 // gradeSig3 rounds to 3 significant figures.
