@@ -1,10 +1,11 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
+	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"sort"
 	"strconv"
@@ -396,15 +397,16 @@ func uMass(s *spec) (float64, error) {
 
 // loadCalibration reads a calibration file; its hash identifies it in the ledger.
 func loadCalibration(path string) (*calorimeter.Calibration, error) {
-	b, err := os.ReadFile(path)
+	f, err := openInput(path)
 	if err != nil {
-		var pe *os.PathError
-		if ok := asPathError(err, &pe); ok {
-			return nil, dataf("%s: %v", path, pe.Err)
-		}
-		return nil, dataErr(err)
+		return nil, err
 	}
-	cal, err := calorimeter.ReadCalibration(strings.NewReader(string(b)))
+	b, err := io.ReadAll(f)
+	f.Close()
+	if err != nil {
+		return nil, dataf("%s: %v", path, err)
+	}
+	cal, err := calorimeter.ReadCalibration(bytes.NewReader(b))
 	if err != nil {
 		return nil, withHint(dataf("%s: %w", filepath.Base(path), err), "--cal takes the file `calred calibrate LOG … -o cal.json` writes")
 	}
