@@ -55,15 +55,6 @@ func (c *chain) correlation() [][]float64 {
 	return m
 }
 
-// values returns the input values, the point at which the model is evaluated.
-func (c *chain) values() []float64 {
-	x := make([]float64, len(c.inputs))
-	for i, in := range c.inputs {
-		x[i] = in.Value
-	}
-	return x
-}
-
 // covariance of two inputs given as (u_a, u_b, cov) → correlation coefficient.
 func chainCorr(ua, ub, cov float64) float64 {
 	if ua <= 0 || ub <= 0 {
